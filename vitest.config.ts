@@ -16,6 +16,7 @@ export default defineConfig({
         test: {
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
+          globalSetup: ['tests/support/build.ts'],
           testTimeout: 60_000,
           hookTimeout: 120_000,
         },
@@ -25,6 +26,7 @@ export default defineConfig({
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
+          globalSetup: ['tests/support/build.ts', 'tests/support/chromium.ts'],
           testTimeout: 120_000,
           hookTimeout: 180_000,
           fileParallelism: false,

@@ -1,0 +1,211 @@
+import { sql } from 'drizzle-orm';
+import { blob, index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { EXERCISE_ROLES, EXERCISE_STATES, PLATFORM_ROLES } from '../lib/roles';
+
+export * from '../lib/roles';
+
+const id = () => text('id').primaryKey();
+const createdAt = () =>
+  integer('created_at', { mode: 'timestamp_ms' })
+    .notNull()
+    .default(sql`(unixepoch('subsec') * 1000)`);
+
+// ---------------------------------------------------------------------------
+// Accounts and sessions (the tables better-auth's Drizzle adapter manages).
+// Column names follow better-auth's field names; `role` and `deactivatedAt`
+// are our additional user fields.
+
+export const user = sqliteTable('user', {
+  id: id(),
+  name: text('name').notNull(),
+  email: text('email').notNull().unique(),
+  emailVerified: integer('email_verified', { mode: 'boolean' }).notNull().default(false),
+  image: text('image'),
+  role: text('role', { enum: PLATFORM_ROLES }).notNull().default('member'),
+  deactivatedAt: integer('deactivated_at', { mode: 'timestamp_ms' }),
+  createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull(),
+  updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+});
+
+export const session = sqliteTable(
+  'session',
+  {
+    id: id(),
+    expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+    token: text('token').notNull().unique(),
+    createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull(),
+    updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+    ipAddress: text('ip_address'),
+    userAgent: text('user_agent'),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+  },
+  (t) => [index('session_user_idx').on(t.userId)],
+);
+
+export const account = sqliteTable(
+  'account',
+  {
+    id: id(),
+    accountId: text('account_id').notNull(),
+    providerId: text('provider_id').notNull(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+    accessToken: text('access_token'),
+    refreshToken: text('refresh_token'),
+    idToken: text('id_token'),
+    accessTokenExpiresAt: integer('access_token_expires_at', { mode: 'timestamp_ms' }),
+    refreshTokenExpiresAt: integer('refresh_token_expires_at', { mode: 'timestamp_ms' }),
+    scope: text('scope'),
+    password: text('password'),
+    createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull(),
+    updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [index('account_user_idx').on(t.userId)],
+);
+
+export const verification = sqliteTable(
+  'verification',
+  {
+    id: id(),
+    identifier: text('identifier').notNull(),
+    value: text('value').notNull(),
+    expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+    createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull(),
+    updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [index('verification_identifier_idx').on(t.identifier)],
+);
+
+// ---------------------------------------------------------------------------
+// Invitations: the only way an account comes to exist. The token itself is
+// mailed; only its SHA-256 is stored.
+
+export const invitation = sqliteTable(
+  'invitation',
+  {
+    id: id(),
+    email: text('email').notNull(),
+    role: text('role', { enum: PLATFORM_ROLES }).notNull().default('member'),
+    tokenHash: text('token_hash').notNull().unique(),
+    invitedBy: text('invited_by')
+      .notNull()
+      .references(() => user.id),
+    /** When set, accepting also adds the new account to this exercise. */
+    exerciseId: text('exercise_id').references(() => exercise.id, { onDelete: 'cascade' }),
+    exerciseRole: text('exercise_role', { enum: EXERCISE_ROLES }),
+    teamId: text('team_id'),
+    createdAt: createdAt(),
+    expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+    acceptedAt: integer('accepted_at', { mode: 'timestamp_ms' }),
+    acceptedUserId: text('accepted_user_id').references(() => user.id),
+    revokedAt: integer('revoked_at', { mode: 'timestamp_ms' }),
+  },
+  (t) => [index('invitation_email_idx').on(t.email)],
+);
+
+// ---------------------------------------------------------------------------
+// Mail captured by the built-in SMTP sink (the Outbox). `raw` keeps the whole
+// RFC 5322 message so attachments can be served byte for byte.
+
+export type StoredAttachmentInfo = { filename: string; contentType: string; size: number };
+
+export const mailMessage = sqliteTable(
+  'mail_message',
+  {
+    id: id(),
+    messageId: text('message_id'),
+    from: text('from').notNull(),
+    to: text('to', { mode: 'json' }).$type<string[]>().notNull(),
+    subject: text('subject').notNull(),
+    text: text('text'),
+    html: text('html'),
+    attachments: text('attachments', { mode: 'json' }).$type<StoredAttachmentInfo[]>().notNull(),
+    raw: blob('raw', { mode: 'buffer' }).notNull(),
+    receivedAt: createdAt(),
+  },
+  (t) => [index('mail_received_idx').on(t.receivedAt)],
+);
+
+// ---------------------------------------------------------------------------
+// Scenarios and their versions. A version's `document` is a whole Rungwise
+// scenario document (src/lib/scenario.ts). Once an exercise uses a version it
+// is frozen; editing a frozen version starts a new draft.
+
+export const scenario = sqliteTable(
+  'scenario',
+  {
+    id: id(),
+    ownerId: text('owner_id')
+      .notNull()
+      .references(() => user.id),
+    title: text('title').notNull(),
+    archivedAt: integer('archived_at', { mode: 'timestamp_ms' }),
+    createdAt: createdAt(),
+    updatedAt: createdAt(),
+  },
+  (t) => [index('scenario_owner_idx').on(t.ownerId)],
+);
+
+export const scenarioVersion = sqliteTable(
+  'scenario_version',
+  {
+    id: id(),
+    scenarioId: text('scenario_id')
+      .notNull()
+      .references(() => scenario.id, { onDelete: 'cascade' }),
+    number: integer('number').notNull(),
+    status: text('status', { enum: ['draft', 'frozen'] })
+      .notNull()
+      .default('draft'),
+    document: text('document', { mode: 'json' }).$type<unknown>().notNull(),
+    createdBy: text('created_by')
+      .notNull()
+      .references(() => user.id),
+    createdAt: createdAt(),
+    updatedAt: createdAt(),
+    frozenAt: integer('frozen_at', { mode: 'timestamp_ms' }),
+  },
+  (t) => [uniqueIndex('scenario_version_number_idx').on(t.scenarioId, t.number)],
+);
+
+// ---------------------------------------------------------------------------
+// Exercises: one run of a frozen scenario version, and who takes part in it.
+
+export const exercise = sqliteTable('exercise', {
+  id: id(),
+  scenarioVersionId: text('scenario_version_id')
+    .notNull()
+    .references(() => scenarioVersion.id),
+  title: text('title').notNull(),
+  state: text('state', { enum: EXERCISE_STATES }).notNull().default('draft'),
+  /** Facilitator-set options (who submits, deadline rule, analysis shown to players...). */
+  settings: text('settings', { mode: 'json' }).$type<Record<string, unknown>>().notNull().default({}),
+  createdBy: text('created_by')
+    .notNull()
+    .references(() => user.id),
+  createdAt: createdAt(),
+  startedAt: integer('started_at', { mode: 'timestamp_ms' }),
+  endedAt: integer('ended_at', { mode: 'timestamp_ms' }),
+});
+
+export const membership = sqliteTable(
+  'membership',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+    role: text('role', { enum: EXERCISE_ROLES }).notNull(),
+    /** The scenario team id, for players only. */
+    teamId: text('team_id'),
+    isLead: integer('is_lead', { mode: 'boolean' }).notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('membership_user_idx').on(t.exerciseId, t.userId), index('membership_user_only_idx').on(t.userId)],
+);
