@@ -29,7 +29,8 @@ export default defineConfig({
           globalSetup: ['tests/support/build.ts', 'tests/support/chromium.ts'],
           testTimeout: 120_000,
           hookTimeout: 180_000,
-          fileParallelism: false,
+          // one browser at a time on a 2-core machine
+          poolOptions: { forks: { singleFork: true } },
         },
       },
     ],

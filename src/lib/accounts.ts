@@ -16,12 +16,10 @@ export async function createAccount(account: NewAccount): Promise<string> {
     ]);
   }
   const hash = await ctx.password.hash(account.password);
-  const created = await ctx.internalAdapter.createUser({
-    email,
-    name: account.name,
-    emailVerified: true,
-    role: account.role,
-  });
+  const created = await ctx.internalAdapter.createUser(
+    { email, name: account.name, emailVerified: true, role: account.role },
+    { method: 'email-password' },
+  );
   await ctx.internalAdapter.linkAccount({ userId: created.id, providerId: 'credential', accountId: created.id, password: hash });
   return created.id;
 }

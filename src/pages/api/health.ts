@@ -11,7 +11,7 @@ async function mailStatus() {
   const url = config.smtpUrl ?? lookup<string>(MAIL_SINK_URL);
   if (!url) return { ok: false, mode: 'none', detail: 'no SMTP_URL and no built-in sink running' };
   const mode = config.smtpUrl ? 'smtp' : 'sink';
-  const probe = nodemailer.createTransport(url, { connectionTimeout: 2000, greetingTimeout: 2000 });
+  const probe = nodemailer.createTransport({ url, connectionTimeout: 2000, greetingTimeout: 2000 } as Parameters<typeof nodemailer.createTransport>[0]);
   try {
     await probe.verify();
     return { ok: true, mode };
