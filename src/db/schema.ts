@@ -142,6 +142,8 @@ export const scenario = sqliteTable(
       .notNull()
       .references(() => user.id),
     title: text('title').notNull(),
+    /** The setting's first lines, kept beside the title for the library search (Studio). */
+    summary: text('summary').notNull().default(''),
     archivedAt: integer('archived_at', { mode: 'timestamp_ms' }),
     createdAt: createdAt(),
     updatedAt: createdAt(),
@@ -167,6 +169,10 @@ export const scenarioVersion = sqliteTable(
     createdAt: createdAt(),
     updatedAt: createdAt(),
     frozenAt: integer('frozen_at', { mode: 'timestamp_ms' }),
+    /** Counts saves of a draft; a save names the revision it started from (Studio, optimistic locking). */
+    revision: integer('revision').notNull().default(0),
+    /** The version this one was started from, when it was not made from nothing. */
+    basedOnId: text('based_on_id'),
   },
   (t) => [uniqueIndex('scenario_version_number_idx').on(t.scenarioId, t.number)],
 );
@@ -208,4 +214,52 @@ export const membership = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('membership_user_idx').on(t.exerciseId, t.userId), index('membership_user_only_idx').on(t.userId)],
+);
+
+// ---------------------------------------------------------------------------
+// Studio: the change log of each scenario version, and briefing documents.
+// Attachments belong to one version (a new draft copies the rows, not the
+// files); the file itself lives on disk under the data folder by SHA-256.
+
+export const scenarioChange = sqliteTable(
+  'scenario_change',
+  {
+    id: id(),
+    versionId: text('version_id')
+      .notNull()
+      .references(() => scenarioVersion.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id),
+    /** One line a person reads: "Edited the ladder (3 rungs)". */
+    summary: text('summary').notNull(),
+    /** The document paths that changed, e.g. "teams[1].brief". */
+    paths: text('paths', { mode: 'json' }).$type<string[]>().notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('scenario_change_version_idx').on(t.versionId, t.createdAt)],
+);
+
+export const ATTACHMENT_TYPES = ['application/pdf', 'image/png', 'image/jpeg'] as const;
+export type AttachmentType = (typeof ATTACHMENT_TYPES)[number];
+
+export const attachment = sqliteTable(
+  'attachment',
+  {
+    id: id(),
+    versionId: text('version_id')
+      .notNull()
+      .references(() => scenarioVersion.id, { onDelete: 'cascade' }),
+    /** Set when the document belongs to one team's private brief. */
+    teamId: text('team_id'),
+    filename: text('filename').notNull(),
+    contentType: text('content_type', { enum: ATTACHMENT_TYPES }).notNull(),
+    size: integer('size').notNull(),
+    sha256: text('sha256').notNull(),
+    uploadedBy: text('uploaded_by')
+      .notNull()
+      .references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('attachment_version_idx').on(t.versionId), index('attachment_sha_idx').on(t.sha256)],
 );
