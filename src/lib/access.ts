@@ -24,6 +24,8 @@ export type ExerciseSettings = {
 export type ExerciseContext = { seat: Seat | null; state: ExerciseState; settings: ExerciseSettings };
 export type TeamContext = ExerciseContext & { teamId: string };
 export type ScenarioContext = { ownerId: string; facilitatesAnExercise: boolean };
+/** A briefing document: its scenario, the team whose brief it belongs to (if any), the actor's seats in exercises run on the scenario. */
+export type AttachmentContext = { scenario: ScenarioContext; teamId: string | null; seats: Seat[] };
 
 type Contexts = {
   'user.manage': Record<string, never>;
@@ -33,6 +35,7 @@ type Contexts = {
   'scenario.read': ScenarioContext;
   'scenario.edit': ScenarioContext;
   'exercise.create': ScenarioContext;
+  'attachment.read': AttachmentContext;
   'exercise.view': ExerciseContext;
   'exercise.run': ExerciseContext;
   'exercise.invite': ExerciseContext;
@@ -97,6 +100,12 @@ const rules: { [A in Action]: Rule<A> } = {
   'exercise.create': (actor, ctx) => {
     if (!authors(actor)) return 'Only facilitators and administrators start exercises';
     return readsScenario(actor, ctx);
+  },
+  'attachment.read': (actor, { scenario, teamId, seats }) => {
+    if (readsScenario(actor, scenario) === true) return true;
+    if (teamId === null) return seats.length > 0 || 'This document belongs to someone else’s scenario';
+    const onItsTeam = seats.some((s) => s.role === 'facilitator' || (s.role === 'player' && s.teamId === teamId));
+    return onItsTeam || 'This document belongs to one team’s brief: only that team and the facilitators see it';
   },
   'exercise.view': (_actor, ctx) => inExercise(ctx),
   'exercise.run': (_actor, ctx) => seatIs('facilitator')(ctx),

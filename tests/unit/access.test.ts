@@ -45,6 +45,24 @@ describe('access: platform actions', () => {
     expect(decide(member, 'exercise.create', { ownerId: 'm', facilitatesAnExercise: false }).ok).toBe(false);
   });
 
+  it('briefing documents: scenario readers and exercise members; a team’s documents to that team and the facilitators only', () => {
+    const foreign = { ownerId: 'x', facilitatesAnExercise: false };
+    const general = (seats: Seat[]) => ({ scenario: foreign, teamId: null, seats });
+    const blueOnly = (seats: Seat[]) => ({ scenario: foreign, teamId: 'blue', seats });
+    const bluePlayer = seat('player', { teamId: 'blue' });
+    const redPlayer = seat('player', { teamId: 'red' });
+    expect(decide(facilitator, 'attachment.read', { scenario: { ownerId: 'f', facilitatesAnExercise: false }, teamId: 'blue', seats: [] }).ok).toBe(true);
+    expect(decide(admin, 'attachment.read', blueOnly([])).ok).toBe(true);
+    expect(decide(facilitator, 'attachment.read', { scenario: { ownerId: 'x', facilitatesAnExercise: true }, teamId: 'red', seats: [] }).ok).toBe(true);
+    expect(decide(member, 'attachment.read', general([])).ok).toBe(false);
+    expect(decide(member, 'attachment.read', general([seat('sponsor')])).ok).toBe(true);
+    expect(decide(member, 'attachment.read', general([redPlayer])).ok).toBe(true);
+    expect(decide(member, 'attachment.read', blueOnly([bluePlayer])).ok).toBe(true);
+    expect(decide(member, 'attachment.read', blueOnly([seat('facilitator')])).ok).toBe(true);
+    expect(decide(member, 'attachment.read', blueOnly([redPlayer, seat('observer'), seat('sponsor')]))).toMatchObject({ ok: false, status: 403 });
+    expect(decide(member, 'attachment.read', blueOnly([]))).toMatchObject({ ok: false, status: 403 });
+  });
+
   it('a signed-out actor gets 401 for every action', () => {
     for (const action of ACTIONS) {
       expect(decide(null, action, {} as never)).toMatchObject({ ok: false, status: 401 });
