@@ -263,3 +263,81 @@ export const attachment = sqliteTable(
   },
   (t) => [index('attachment_version_idx').on(t.versionId), index('attachment_sha_idx').on(t.sha256)],
 );
+
+// ---------------------------------------------------------------------------
+// After-action reports. The draft is a Yjs document stored as its updates
+// (merged into one row now and then); an issued version is a frozen copy of
+// the document as Tiptap JSON; each send to sponsors and each comment is a row.
+
+export const reportUpdate = sqliteTable(
+  'report_update',
+  {
+    seq: integer('seq').primaryKey({ autoIncrement: true }),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    update: blob('update', { mode: 'buffer' }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('report_update_exercise_idx').on(t.exerciseId, t.seq)],
+);
+
+export const reportVersion = sqliteTable(
+  'report_version',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    number: integer('number').notNull(),
+    title: text('title').notNull(),
+    /** The document as Tiptap (ProseMirror) JSON, never changed after issue. */
+    content: text('content', { mode: 'json' }).$type<unknown>().notNull(),
+    issuedBy: text('issued_by')
+      .notNull()
+      .references(() => user.id),
+    /** The issuer's name as it was when the version was issued. */
+    issuedByName: text('issued_by_name').notNull(),
+    issuedAt: createdAt(),
+  },
+  (t) => [uniqueIndex('report_version_number_idx').on(t.exerciseId, t.number)],
+);
+
+export const reportDispatch = sqliteTable(
+  'report_dispatch',
+  {
+    id: id(),
+    versionId: text('version_id')
+      .notNull()
+      .references(() => reportVersion.id, { onDelete: 'cascade' }),
+    sentBy: text('sent_by')
+      .notNull()
+      .references(() => user.id),
+    sentByName: text('sent_by_name').notNull(),
+    recipients: text('recipients', { mode: 'json' }).$type<string[]>().notNull(),
+    note: text('note').notNull(),
+    messageId: text('message_id'),
+    sentAt: createdAt(),
+  },
+  (t) => [index('report_dispatch_version_idx').on(t.versionId)],
+);
+
+export const reportComment = sqliteTable(
+  'report_comment',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    authorId: text('author_id')
+      .notNull()
+      .references(() => user.id),
+    authorName: text('author_name').notNull(),
+    /** The passage of the draft the comment is about, as the author selected it. */
+    quote: text('quote'),
+    body: text('body').notNull(),
+    createdAt: createdAt(),
+    resolvedAt: integer('resolved_at', { mode: 'timestamp_ms' }),
+  },
+  (t) => [index('report_comment_exercise_idx').on(t.exerciseId, t.createdAt)],
+);
