@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { blob, index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { EXERCISE_ROLES, EXERCISE_STATES, PLATFORM_ROLES } from '../lib/roles';
 
 export * from '../lib/roles';
@@ -195,6 +195,14 @@ export const exercise = sqliteTable('exercise', {
   createdAt: createdAt(),
   startedAt: integer('started_at', { mode: 'timestamp_ms' }),
   endedAt: integer('ended_at', { mode: 'timestamp_ms' }),
+  // Live play (src/lib/exercise, server/live): where play stands, the number of
+  // the last committed update, the seed of the chance draws and the turn clock.
+  nodeId: text('node_id'),
+  turn: integer('turn').notNull().default(1),
+  seq: integer('seq').notNull().default(0),
+  chanceSeed: text('chance_seed'),
+  draws: integer('draws').notNull().default(0),
+  clock: text('clock', { mode: 'json' }).$type<ExerciseClock>(),
 });
 
 export const membership = sqliteTable(
@@ -340,4 +348,142 @@ export const reportComment = sqliteTable(
     resolvedAt: integer('resolved_at', { mode: 'timestamp_ms' }),
   },
   (t) => [index('report_comment_exercise_idx').on(t.exerciseId, t.createdAt)],
+);
+
+// ---------------------------------------------------------------------------
+// Live exercise (src/lib/exercise, server/live). Every committed change is one
+// numbered row of exercise_event (the audit log and the source of the numbered
+// updates); moves, drafts, injects and notes are the state those events changed.
+
+/** The turn clock: `deadlineAt` while it runs, `leftMs` while it is held. */
+export type ExerciseClock = {
+  status: 'none' | 'held' | 'running' | 'expired';
+  deadlineAt: number | null;
+  leftMs: number | null;
+  /** Restart the clock when the exercise goes live again after a pause. */
+  resumeOnLive: boolean;
+};
+
+export const MOVE_KINDS = ['ladder', 'adjudicated', 'chance'] as const;
+/** proposed: free text awaiting adjudication; sealed: decided, not yet in effect; revealed: in effect; undone. */
+export const MOVE_STATUSES = ['proposed', 'sealed', 'revealed', 'undone'] as const;
+
+export const exerciseMove = sqliteTable(
+  'exercise_move',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    turn: integer('turn').notNull(),
+    /** The node where the turn's stage begins. */
+    stageNodeId: text('stage_node_id').notNull(),
+    /** The tree node the move was made at; known for every team once the stage is revealed. */
+    nodeId: text('node_id'),
+    teamId: text('team_id'),
+    label: text('label'),
+    kind: text('kind', { enum: MOVE_KINDS }).notNull(),
+    status: text('status', { enum: MOVE_STATUSES }).notNull(),
+    proposal: text('proposal'),
+    reason: text('reason'),
+    rationale: text('rationale'),
+    confidence: integer('confidence'),
+    drawSeed: text('draw_seed'),
+    drawValue: real('draw_value'),
+    /** Set when an adjudication ended the game at this terminal node instead of an action. */
+    outcomeNodeId: text('outcome_node_id'),
+    submittedBy: text('submitted_by').references(() => user.id),
+    submittedByName: text('submitted_by_name'),
+    createdAt: createdAt(),
+    revealedAt: integer('revealed_at', { mode: 'timestamp_ms' }),
+    undoneAt: integer('undone_at', { mode: 'timestamp_ms' }),
+    undoReason: text('undo_reason'),
+  },
+  (t) => [index('exercise_move_turn_idx').on(t.exerciseId, t.turn)],
+);
+
+export const exerciseEvent = sqliteTable(
+  'exercise_event',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    seq: integer('seq').notNull(),
+    kind: text('kind').notNull(),
+    actorId: text('actor_id').references(() => user.id),
+    actorName: text('actor_name').notNull(),
+    /** The client's idempotency key: a retried intent finds its first commit here. */
+    intentKey: text('intent_key'),
+    summary: text('summary').notNull(),
+    data: text('data', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+    /** The snapshot sections the change touched, so a resuming client is sent only those. */
+    sections: text('sections', { mode: 'json' }).$type<string[]>().notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('exercise_event_seq_idx').on(t.exerciseId, t.seq),
+    uniqueIndex('exercise_event_intent_idx').on(t.exerciseId, t.intentKey),
+  ],
+);
+
+export const exerciseDraft = sqliteTable(
+  'exercise_draft',
+  {
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    teamId: text('team_id').notNull(),
+    turn: integer('turn').notNull(),
+    label: text('label'),
+    proposal: text('proposal'),
+    rationale: text('rationale').notNull().default(''),
+    confidence: integer('confidence'),
+    updatedBy: text('updated_by').references(() => user.id),
+    updatedByName: text('updated_by_name').notNull(),
+    updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.exerciseId, t.teamId] })],
+);
+
+export const exerciseInject = sqliteTable(
+  'exercise_inject',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    turn: integer('turn').notNull(),
+    nodeId: text('node_id').notNull(),
+    /** The scenario's own inject id when a pre-authored inject was released. */
+    authoredId: text('authored_id'),
+    title: text('title').notNull(),
+    body: text('body').notNull(),
+    /** Team ids, or 'all'. */
+    audience: text('audience', { mode: 'json' }).$type<string[] | 'all'>().notNull(),
+    attachmentIds: text('attachment_ids', { mode: 'json' }).$type<string[]>().notNull(),
+    sentBy: text('sent_by').references(() => user.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('exercise_inject_idx').on(t.exerciseId, t.createdAt)],
+);
+
+export const exerciseNote = sqliteTable(
+  'exercise_note',
+  {
+    id: id(),
+    exerciseId: text('exercise_id')
+      .notNull()
+      .references(() => exercise.id, { onDelete: 'cascade' }),
+    turn: integer('turn'),
+    moveId: text('move_id').references(() => exerciseMove.id),
+    tags: text('tags', { mode: 'json' }).$type<string[]>().notNull(),
+    text: text('text').notNull(),
+    authorId: text('author_id')
+      .notNull()
+      .references(() => user.id),
+    authorName: text('author_name').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('exercise_note_idx').on(t.exerciseId, t.createdAt)],
 );
