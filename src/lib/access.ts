@@ -23,6 +23,8 @@ export type ExerciseSettings = {
 
 export type ExerciseContext = { seat: Seat | null; state: ExerciseState; settings: ExerciseSettings };
 export type TeamContext = ExerciseContext & { teamId: string };
+/** An inject and the teams it is addressed to. */
+export type InjectContext = ExerciseContext & { to: string[] | 'all' };
 export type ScenarioContext = { ownerId: string; facilitatesAnExercise: boolean };
 /** A briefing document: its scenario, the team whose brief it belongs to (if any), the actor's seats in exercises run on the scenario. */
 export type AttachmentContext = { scenario: ScenarioContext; teamId: string | null; seats: Seat[] };
@@ -40,6 +42,8 @@ type Contexts = {
   'exercise.run': ExerciseContext;
   'exercise.invite': ExerciseContext;
   'team.brief.read': TeamContext;
+  'team.work.read': TeamContext;
+  'inject.read': InjectContext;
   'move.draft': TeamContext;
   'move.submit': TeamContext;
   'note.read': ExerciseContext;
@@ -114,6 +118,17 @@ const rules: { [A in Action]: Rule<A> } = {
     if (ctx.seat?.role === 'facilitator') return true;
     if (ctx.seat?.role === 'player' && ctx.seat.teamId === ctx.teamId) return true;
     return 'A team’s brief is for that team and the facilitators only';
+  },
+  'team.work.read': (_actor, ctx) => {
+    if (ctx.seat?.role === 'facilitator') return true;
+    if (ctx.seat?.role === 'player' && ctx.seat.teamId === ctx.teamId) return true;
+    return 'A team’s drafts and sealed moves are for that team and the facilitators only';
+  },
+  'inject.read': (_actor, ctx) => {
+    if (ctx.seat?.role === 'facilitator' || ctx.seat?.role === 'observer') return true;
+    if (ctx.seat?.role !== 'player') return 'Injects go to the teams, the facilitators and the observers';
+    const forTeam = ctx.to === 'all' || (ctx.seat.teamId !== null && ctx.to.includes(ctx.seat.teamId));
+    return forTeam || 'This inject was sent to other teams';
   },
   'move.draft': (_actor, ctx) => {
     const team = onTeam(ctx);

@@ -109,6 +109,7 @@ describe('access: exercise actions by seat', () => {
   // Team-scoped actions, acting for Blue.
   const teamExpected: Record<string, Record<keyof typeof seats, boolean>> = {
     'team.brief.read': { facilitator: true, blueLead: true, blueMember: true, redLead: false, observer: false, sponsor: false, outsider: false },
+    'team.work.read': { facilitator: true, blueLead: true, blueMember: true, redLead: false, observer: false, sponsor: false, outsider: false },
     'move.draft': { facilitator: false, blueLead: true, blueMember: true, redLead: false, observer: false, sponsor: false, outsider: false },
     'move.submit': { facilitator: false, blueLead: true, blueMember: false, redLead: false, observer: false, sponsor: false, outsider: false },
   };
@@ -117,6 +118,23 @@ describe('access: exercise actions by seat', () => {
       expect(decide(member, action as 'move.submit', { ...live(seats[who]!), teamId: 'blue' }).ok).toBe(allowed);
     });
   }
+
+  it('injects: facilitators and observers read all; players those sent to everyone or to their team; sponsors none', () => {
+    const toBlue = { to: ['blue'] as string[] };
+    const toAll = { to: 'all' as const };
+    const expectations: [keyof typeof seats, typeof toBlue | typeof toAll, boolean][] = [
+      ['facilitator', toBlue, true],
+      ['observer', toBlue, true],
+      ['blueMember', toBlue, true],
+      ['redLead', toBlue, false],
+      ['redLead', toAll, true],
+      ['sponsor', toAll, false],
+      ['outsider', toAll, false],
+    ];
+    for (const [who, inject, expected] of expectations) {
+      expect(decide(member, 'inject.read', { ...live(seats[who]!), ...inject }).ok, `${who}`).toBe(expected);
+    }
+  });
 
   it('any team member submits when the facilitator allows it', () => {
     expect(decide(member, 'move.submit', { ...live(blueMember, { submitter: 'any' }), teamId: 'blue' }).ok).toBe(true);
