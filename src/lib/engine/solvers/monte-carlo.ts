@@ -1,0 +1,136 @@
+/**
+ * Monte Carlo over uncertain payoffs: each sample draws the payoffs that carry a range
+ * (uniform, or triangular with a mode) from a seeded generator, solves the game, and
+ * records where equilibrium play ends. The result is, for every terminal, the share of
+ * samples in which it is the equilibrium outcome (averaging reach probabilities when
+ * equilibrium play is mixed or passes chance nodes).
+ */
+import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, sourceOf, type FlatGame } from '../compile';
+import type { Game } from '../model';
+import { floatField, toFloat, type Num } from '../numbers';
+import { mulberry32, type Rng } from '../rng';
+import { pathTo } from '../tree';
+import { solveFlat } from './backward-induction';
+import type { Progress } from './qre';
+import { rollUp } from './subgame-perfect';
+
+export type PayoffDistribution =
+  | { kind: 'uniform'; low: Num; high: Num }
+  | { kind: 'triangular'; low: Num; mode: Num; high: Num };
+
+export interface PayoffRange {
+  terminalId: string;
+  team: string;
+  distribution: PayoffDistribution;
+}
+
+export interface MonteCarloOptions {
+  samples: number;
+  seed: number;
+  progress?: Progress;
+}
+
+export interface OutcomeShare {
+  terminalId: string;
+  outcome?: string;
+  path: string[];
+  probability: number;
+}
+
+export interface MonteCarloResult {
+  samples: number;
+  seed: number;
+  generator: 'mulberry32';
+  /** Terminals with a positive share, most likely first. */
+  outcomes: OutcomeShare[];
+}
+
+export function sampleDistribution(d: PayoffDistribution, rng: Rng): number {
+  const low = toFloat(d.low);
+  const high = toFloat(d.high);
+  const u = rng();
+  if (d.kind === 'uniform') return low + u * (high - low);
+  const mode = toFloat(d.mode);
+  const span = high - low;
+  if (span <= 0) return low;
+  const cut = (mode - low) / span;
+  return u < cut ? low + Math.sqrt(u * span * (mode - low)) : high - Math.sqrt((1 - u) * span * (high - mode));
+}
+
+export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarloOptions): MonteCarloResult {
+  const flat = compiledGame(game);
+  const source = sourceOf(flat);
+  const slots = ranges.map((r) => {
+    const i = source.indexOf.get(r.terminalId);
+    const t = game.teams.findIndex((team) => team.id === r.team);
+    if (i === undefined || flat.mover[i] !== TERMINAL) throw new Error(`payoff range: "${r.terminalId}" is not a terminal node`);
+    if (t < 0) throw new Error(`payoff range: unknown team "${r.team}"`);
+    checkDistribution(r);
+    return flat.aux[i]! * flat.teams + t;
+  });
+  const rng = mulberry32(options.seed);
+  const share = new Float64Array(flat.size);
+  const payoff = flat.payoff.slice();
+  const sampled: FlatGame = { ...flat, payoff };
+  const perfect = isPerfectInformation(flat);
+  const reach = new Float64Array(flat.size);
+  const every = Math.max(1, Math.floor(options.samples / 100));
+  for (let s = 0; s < options.samples; s++) {
+    slots.forEach((slot, k) => (payoff[slot] = sampleDistribution(ranges[k]!.distribution, rng)));
+    if (perfect) reachOfChoices(sampled, solveFlat(sampled).choice, reach);
+    else reachOfBehaviour(sampled, rollUp(sampled, floatField, { payoff: Array.from(payoff), prob: Array.from(flat.prob) }, { maxListed: 1, count: false }).behaviours[0]!, reach);
+    for (let i = 0; i < flat.size; i++) if (flat.mover[i] === TERMINAL) share[i]! += reach[i]!;
+    if (s % every === every - 1) options.progress?.((s + 1) / options.samples, 'Monte Carlo samples');
+  }
+  const outcomes: OutcomeShare[] = [];
+  for (let i = 0; i < flat.size; i++) {
+    if (flat.mover[i] !== TERMINAL || share[i]! <= 0) continue;
+    const node = source.nodes[i]!;
+    outcomes.push({
+      terminalId: node.id,
+      ...(node.kind === 'terminal' && node.outcome ? { outcome: node.outcome } : {}),
+      path: pathTo(game, node.id)!,
+      probability: share[i]! / options.samples,
+    });
+  }
+  outcomes.sort((a, b) => b.probability - a.probability);
+  return { samples: options.samples, seed: options.seed, generator: 'mulberry32', outcomes };
+}
+
+function checkDistribution(range: PayoffRange) {
+  const d = range.distribution;
+  const low = toFloat(d.low);
+  const high = toFloat(d.high);
+  const where = `payoff range for ${range.team} at "${range.terminalId}"`;
+  if (!(low <= high)) throw new Error(`${where}: low must not exceed high`);
+  if (d.kind === 'triangular') {
+    const mode = toFloat(d.mode);
+    if (!(low <= mode && mode <= high)) throw new Error(`${where}: the mode must lie between low and high`);
+  }
+}
+
+function reachOfChoices(flat: FlatGame, choice: Uint16Array, reach: Float64Array) {
+  reach.fill(0);
+  reach[0] = 1;
+  for (let i = 0; i < flat.size; i++) {
+    const r = reach[i]!;
+    if (r === 0 || flat.mover[i] === TERMINAL) continue;
+    const first = flat.childStart[i]!;
+    if (flat.mover[i] === CHANCE) {
+      for (let c = first; c < flat.childStart[i + 1]!; c++) reach[c] = r * flat.prob[flat.aux[i]! + c - first]!;
+    } else reach[first + choice[i]!] = r;
+  }
+}
+
+function reachOfBehaviour(flat: FlatGame, behaviour: number[][], reach: Float64Array) {
+  reach.fill(0);
+  reach[0] = 1;
+  for (let i = 0; i < flat.size; i++) {
+    const r = reach[i]!;
+    if (r === 0 || flat.mover[i] === TERMINAL) continue;
+    const first = flat.childStart[i]!;
+    for (let c = first; c < flat.childStart[i + 1]!; c++) {
+      reach[c] = r * (flat.mover[i] === CHANCE ? flat.prob[flat.aux[i]! + c - first]! : behaviour[flat.aux[i]!]![c - first]!);
+    }
+  }
+}

@@ -1,0 +1,477 @@
+/**
+ * Subgame-perfect equilibria of games with imperfect information, by rolling values up
+ * through the proper subgames from the bottom. Each proper subgame, with its nested
+ * proper subgames already replaced by their values, is solved by the method that fits:
+ *  - a single decision or chance node: backward induction (all tied choices count);
+ *  - a two-team simultaneous stage: all equilibria by support enumeration;
+ *  - any other two-team part: one equilibrium by Lemke's algorithm on the sequence form;
+ *  - more than two teams: pure equilibria by enumeration when the part is small.
+ * The equilibria of the parts combine into subgame-perfect equilibria; they are counted
+ * by distinct values and the first K are listed. Perfect-information games go to
+ * backward induction directly.
+ */
+import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, parentsOf, type FlatGame } from '../compile';
+import type { Game } from '../model';
+import { exactField, floatField, type Field } from '../numbers';
+import {
+  addToSummary,
+  advanceOdometer,
+  chanceSummary,
+  decisionSummary,
+  singleSummary,
+  summaryTotal,
+  type Summary,
+} from '../enumeration';
+import { numbersOf, toEquilibrium, type Behaviour, type Equilibrium } from '../profile';
+import { movers, type ReducedGame, type ReducedInfoset, type ReducedNode, type ReducedSolution } from '../reduced';
+import { properSubgameRoots } from '../subgames';
+import { backwardInduction } from './backward-induction';
+import { pureEquilibria } from './pure-enumeration';
+import { sequenceFormEquilibrium } from './sequence-form';
+import { bimatrixEquilibria } from './support-enumeration';
+
+export interface SubgamePerfectOptions {
+  exact?: boolean;
+  /** How many equilibria to list (default 1). */
+  maxListed?: number;
+}
+
+export interface StageCounts {
+  decision: number;
+  chance: number;
+  simultaneous: number;
+  sequenceForm: number;
+  pure: number;
+}
+
+export interface SubgamePerfectResult {
+  method: string;
+  exact: boolean;
+  count: number;
+  /** False when the count is a lower bound: Lemke's method finds one equilibrium of a part, pure enumeration only pure ones, or caps were reached. */
+  countExact: boolean;
+  /** True when some simultaneous stage is degenerate: it then has continua of equilibria between the listed extreme ones. */
+  continua: boolean;
+  stages: StageCounts;
+  equilibria: Equilibrium[];
+}
+
+export function solveSubgamePerfect(game: Game, options: SubgamePerfectOptions = {}): SubgamePerfectResult {
+  const flat = compiledGame(game);
+  const maxListed = Math.max(1, options.maxListed ?? 1);
+  if (isPerfectInformation(flat)) {
+    const bi = backwardInduction(game, { exact: options.exact, maxListed });
+    const decisions = flat.infosetCount;
+    return {
+      method: bi.method,
+      exact: bi.exact,
+      count: bi.count,
+      countExact: bi.countExact,
+      continua: false,
+      stages: { decision: decisions, chance: 0, simultaneous: 0, sequenceForm: 0, pure: 0 },
+      equilibria: bi.equilibria,
+    };
+  }
+  const field = options.exact ? exactField : floatField;
+  return report(flat, field as Field<unknown>, maxListed);
+}
+
+function report<T>(flat: FlatGame, field: Field<T>, maxListed: number): SubgamePerfectResult {
+  const roll = rollUp(flat, field, numbersOf(flat, field), { maxListed, count: true });
+  const used = Object.entries(roll.stages)
+    .filter(([, n]) => n > 0)
+    .map(([kind, n]) => `${STAGE_NAMES[kind as keyof StageCounts]} ${n}`)
+    .join(', ');
+  return {
+    method: `subgame-perfect roll-up (${field.exact ? 'exact' : 'float'}): ${used}`,
+    exact: field.exact,
+    count: roll.count,
+    countExact: roll.countExact,
+    continua: roll.continua,
+    stages: roll.stages,
+    equilibria: roll.behaviours.map((b, j) => toEquilibrium(flat, field, b, roll.rootValues[j])),
+  };
+}
+
+const STAGE_NAMES: Record<keyof StageCounts, string> = {
+  decision: 'backward induction steps',
+  chance: 'chance steps',
+  simultaneous: 'simultaneous stages by support enumeration',
+  sequenceForm: 'parts by sequence-form Lemke',
+  pure: 'parts by pure-strategy enumeration',
+};
+
+interface Entry<T> {
+  value: T[];
+  profile: Map<number, T[]>;
+  /** Entry index chosen in each nested leaf (in leaf order). */
+  picks: number[];
+}
+
+interface Part<T> {
+  /** Flat indices of the leaves of the reduced game (terminals or nested subgame roots). */
+  leaves: number[];
+  summary?: Summary<T>;
+  entries: Entry<T>[];
+}
+
+export interface RollUp<T> {
+  behaviours: Behaviour<T>[];
+  rootValues: T[][];
+  count: number;
+  countExact: boolean;
+  continua: boolean;
+  stages: StageCounts;
+}
+
+/** Largest number of value combinations of nested parts tried when counting a part's equilibria. */
+const COMBINATION_CAP = 256;
+
+/**
+ * The roll-up over a flat game with the given payoffs and probabilities (so that Monte
+ * Carlo and sensitivity analysis can re-run it on altered numbers).
+ */
+export function rollUp<T>(
+  flat: FlatGame,
+  field: Field<T>,
+  numbers: { payoff: T[]; prob: T[] },
+  options: { maxListed: number; count: boolean },
+): RollUp<T> {
+  const roots = properSubgameRoots(flat);
+  const parts: Part<T>[] = new Array(flat.size);
+  const stages: StageCounts = { decision: 0, chance: 0, simultaneous: 0, sequenceForm: 0, pure: 0 };
+  let complete = true;
+  let continua = false;
+  for (let i = flat.size - 1; i >= 0; i--) {
+    if (flat.mover[i] === TERMINAL) {
+      const part = terminalPart(flat, numbers.payoff, i);
+      if (options.count) part.summary = singleSummary(part.entries[0]!.value);
+      parts[i] = part;
+      continue;
+    }
+    if (!roots[i]) continue;
+    const { game, leaves } = reducedGame(flat, numbers.prob, roots, i);
+    const solver = new PartSolver(field, game, leaves, parts);
+    const part: Part<T> = { leaves, entries: solver.list(options.maxListed) };
+    if (options.count) part.summary = solver.count();
+    stages[solver.kind]++;
+    complete &&= solver.complete;
+    continua ||= solver.degenerate;
+    parts[i] = part;
+  }
+  const top = parts[0]!;
+  const behaviours = top.entries.map((_, j) => materialize(flat, parts, j));
+  const count = top.summary ? summaryTotal(top.summary) : top.entries.length;
+  return {
+    behaviours,
+    rootValues: top.entries.map((e) => e.value),
+    count,
+    countExact: options.count && complete && !top.summary!.truncated && Number.isSafeInteger(count),
+    continua,
+    stages,
+  };
+}
+
+/**
+ * The first subgame-perfect equilibrium, kept live so that one terminal payoff can be
+ * altered and only the proper subgames above it re-solved (sensitivity analysis).
+ */
+export class RollUpSession<T> {
+  private readonly parts: Part<T>[];
+  private readonly solvers = new Map<number, PartSolver<T>>();
+  private readonly parent: Int32Array;
+  private readonly roots: Uint8Array;
+
+  constructor(
+    private readonly flat: FlatGame,
+    private readonly field: Field<T>,
+    private readonly numbers: { payoff: T[]; prob: T[] },
+  ) {
+    this.roots = properSubgameRoots(flat);
+    this.parent = parentsOf(flat);
+    this.parts = new Array(flat.size);
+    for (let i = flat.size - 1; i >= 0; i--) {
+      if (flat.mover[i] === TERMINAL) this.parts[i] = terminalPart(flat, numbers.payoff, i);
+      else if (this.roots[i]) {
+        const { game, leaves } = reducedGame(flat, numbers.prob, this.roots, i);
+        const solver = new PartSolver(field, game, leaves, this.parts);
+        this.solvers.set(i, solver);
+        this.parts[i] = { leaves, entries: solver.list(1) };
+      }
+    }
+  }
+
+  /** Roots of the proper subgames containing node i, innermost first. */
+  chainAbove(i: number): number[] {
+    const chain: number[] = [];
+    for (let x = this.parent[i]!; x >= 0; x = this.parent[x]!) if (this.roots[x]) chain.push(x);
+    return chain;
+  }
+
+  /** Teams that move inside the part rooted at `root` (not in its nested parts). */
+  moversIn(root: number): number[] {
+    return movers(this.solvers.get(root)!.game);
+  }
+
+  payoff(terminal: number, team: number): T {
+    return this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team]!;
+  }
+
+  /** Set one payoff and re-solve the parts above it. */
+  setPayoff(terminal: number, team: number, value: T, chain = this.chainAbove(terminal)) {
+    this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
+    this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
+    for (const root of chain) this.parts[root]!.entries = this.solvers.get(root)!.list(1);
+  }
+
+  /** What equilibrium play does along a chain: the supports of the reached information sets of its parts. */
+  playSignature(chain: number[]): string {
+    const pieces: string[] = [];
+    let reached = true;
+    for (let c = chain.length - 1; c >= 0 && reached; c--) {
+      const root = chain[c]!;
+      const solver = this.solvers.get(root)!;
+      const profile = this.parts[root]!.entries[0]!.profile;
+      pieces.push(solver.support(profile));
+      const below = c > 0 ? chain[c - 1]! : -1;
+      if (below >= 0) reached = solver.reaches(profile, this.parts[root]!.leaves.indexOf(below));
+    }
+    return pieces.join('|');
+  }
+
+  behaviour(): Behaviour<T> {
+    return materialize(this.flat, this.parts, 0);
+  }
+
+  rootValue(): T[] {
+    return this.parts[0]!.entries[0]!.value;
+  }
+}
+
+function terminalPart<T>(flat: FlatGame, payoff: T[], i: number): Part<T> {
+  const value = payoff.slice(flat.aux[i]! * flat.teams, (flat.aux[i]! + 1) * flat.teams);
+  return { leaves: [], entries: [{ value, profile: new Map(), picks: [] }] };
+}
+
+/** The reduced game of the proper subgame rooted at flat node `root`. */
+function reducedGame<T>(flat: FlatGame, prob: T[], roots: Uint8Array, root: number) {
+  const nodes: ReducedNode<T>[] = [];
+  const infosets = new Map<number, ReducedInfoset>();
+  const leaves: number[] = [];
+  const queue = [root];
+  for (let head = 0; head < queue.length; head++) {
+    const i = queue[head]!;
+    const isLeaf = head > 0 && (flat.mover[i] === TERMINAL || roots[i] === 1);
+    if (isLeaf) {
+      nodes.push({ kind: 'leaf', children: [] });
+      leaves.push(i);
+      continue;
+    }
+    const children: number[] = [];
+    for (let c = flat.childStart[i]!; c < flat.childStart[i + 1]!; c++) {
+      children.push(queue.length);
+      queue.push(c);
+    }
+    if (flat.mover[i] === CHANCE) {
+      nodes.push({ kind: 'chance', probs: prob.slice(flat.aux[i]!, flat.aux[i]! + children.length), children });
+    } else {
+      const infoset = flat.aux[i]!;
+      nodes.push({ kind: 'decision', team: flat.mover[i]!, infoset, children });
+      const h = infosets.get(infoset) ?? { team: flat.mover[i]!, actions: children.length, members: [] };
+      h.members.push(head);
+      infosets.set(infoset, h);
+    }
+  }
+  return { game: { teams: flat.teams, nodes, infosets } as ReducedGame<T>, leaves };
+}
+
+type PartKind = keyof StageCounts;
+
+/** Solves one reduced game for given leaf values, and combines nested equilibria. */
+class PartSolver<T> {
+  readonly kind: PartKind;
+  complete = true;
+  degenerate = false;
+  private readonly leafNodes: number[];
+  private readonly cache = new Map<string, ReducedSolution<T>[]>();
+
+  constructor(
+    private readonly field: Field<T>,
+    readonly game: ReducedGame<T>,
+    private readonly leaves: number[],
+    private readonly parts: Part<T>[],
+  ) {
+    this.leafNodes = game.nodes.flatMap((n, local) => (n.kind === 'leaf' ? [local] : []));
+    this.kind = classify(game);
+  }
+
+  /** The first K equilibria, over tuples of nested entries in lexicographic order. */
+  list(maxListed: number): Entry<T>[] {
+    const lists = this.leaves.map((leaf) => this.parts[leaf]!.entries);
+    const sizes = lists.map((l) => l.length);
+    const picks = lists.map(() => 0);
+    const out: Entry<T>[] = [];
+    for (;;) {
+      const values = lists.map((l, k) => l[picks[k]!]!.value);
+      for (const solution of this.solve(values)) {
+        if (out.length < maxListed) out.push({ value: solution.value, profile: solution.profile, picks: [...picks] });
+      }
+      if (out.length >= maxListed || !advanceOdometer(picks, sizes)) return out;
+    }
+  }
+
+  /** Distinct values of this part's equilibria with their counts. */
+  count(): Summary<T> {
+    const nested = this.leaves.map((leaf) => this.parts[leaf]!.summary!);
+    const root = this.game.nodes[0]!;
+    if (this.kind === 'decision') return decisionSummary(this.field, root.team!, nested);
+    if (this.kind === 'chance') return chanceSummary(this.field, nested, root.probs!);
+    const out: Summary<T> = { values: [], counts: [], truncated: nested.some((s) => s.truncated) || undefined };
+    const sizes = nested.map((s) => s.values.length);
+    const picks = nested.map(() => 0);
+    for (let tried = 0; ; tried++) {
+      if (tried >= COMBINATION_CAP) {
+        out.truncated = true;
+        return out;
+      }
+      const values = nested.map((s, k) => s.values[picks[k]!]!);
+      const weight = nested.reduce((n, s, k) => n * s.counts[picks[k]!]!, 1);
+      for (const solution of this.solve(values)) addToSummary(this.field, out, solution.value, weight);
+      if (!advanceOdometer(picks, sizes)) return out;
+    }
+  }
+
+  private solve(leafValues: T[][]): ReducedSolution<T>[] {
+    const key = leafValues.map((v) => v.map((x) => String(this.field.format(x) ?? this.field.toNumber(x))).join(',')).join(';');
+    const cached = this.cache.get(key);
+    if (cached) return cached;
+    this.leafNodes.forEach((local, k) => (this.game.nodes[local]!.value = leafValues[k]!));
+    const solutions = this.solveNow();
+    if (this.cache.size >= 64) this.cache.clear();
+    this.cache.set(key, solutions);
+    return solutions;
+  }
+
+  /** Probability of reaching each local node under a profile of this part. */
+  private localReach(profile: Map<number, T[]>): T[] {
+    const { field, game } = this;
+    const reach: T[] = new Array(game.nodes.length).fill(field.zero);
+    reach[0] = field.one;
+    game.nodes.forEach((node, i) => {
+      if (node.kind === 'leaf') return;
+      const weights = node.kind === 'chance' ? node.probs! : profile.get(node.infoset!)!;
+      node.children.forEach((c, k) => (reach[c] = field.mul(reach[i]!, weights[k]!)));
+    });
+    return reach;
+  }
+
+  /** Supports of the information sets this profile reaches, as text. */
+  support(profile: Map<number, T[]>): string {
+    const reach = this.localReach(profile);
+    const reachedSets = new Set<number>();
+    this.game.nodes.forEach((node, i) => {
+      if (node.kind === 'decision' && this.field.cmp(reach[i]!, this.field.zero) > 0) reachedSets.add(node.infoset!);
+    });
+    return [...reachedSets]
+      .sort((a, b) => a - b)
+      .map((h) => `${h}:${profile.get(h)!.flatMap((p, k) => (this.field.cmp(p, this.field.zero) > 0 ? [k] : [])).join('.')}`)
+      .join(',');
+  }
+
+  /** Whether the profile reaches the leaf with this index (in leaf order). */
+  reaches(profile: Map<number, T[]>, leafIndex: number): boolean {
+    const reach = this.localReach(profile);
+    return this.field.cmp(reach[this.leafNodes[leafIndex]!]!, this.field.zero) > 0;
+  }
+
+  private solveNow(): ReducedSolution<T>[] {
+    const { field, game } = this;
+    const root = game.nodes[0]!;
+    const leafValue = (local: number) => game.nodes[local]!.value!;
+    switch (this.kind) {
+      case 'decision': {
+        const values = root.children.map(leafValue);
+        let best = values[0]![root.team!]!;
+        for (const v of values) if (field.cmp(v[root.team!]!, best) > 0) best = v[root.team!]!;
+        return values.flatMap((v, a) =>
+          field.cmp(v[root.team!]!, best) === 0
+            ? [{ value: v, profile: new Map([[root.infoset!, values.map((_, k) => (k === a ? field.one : field.zero))]]) }]
+            : [],
+        );
+      }
+      case 'chance': {
+        const values = root.children.map(leafValue);
+        const value = values[0]!.map((_, t) => values.reduce((s, v, c) => field.add(s, field.mul(root.probs![c]!, v[t]!)), field.zero));
+        return [{ value, profile: new Map() }];
+      }
+      case 'simultaneous':
+        return this.simultaneous();
+      case 'sequenceForm':
+        this.complete = false;
+        return [sequenceFormEquilibrium(field, game)];
+      case 'pure': {
+        this.complete = false;
+        const found = pureEquilibria(field, game);
+        if (found.length === 0) throw new Error('a part of the game with more than two teams has no pure equilibrium; mixed equilibria of such parts are not computed');
+        return found;
+      }
+    }
+  }
+
+  private simultaneous(): ReducedSolution<T>[] {
+    const { field, game } = this;
+    const root = game.nodes[0]!;
+    const second = game.nodes[root.children[0]!]!;
+    const [a, b] = [root.team!, second.team!];
+    const A = root.children.map((r) => game.nodes[r]!.children.map((c) => game.nodes[c]!.value![a]!));
+    const B = root.children.map((r) => game.nodes[r]!.children.map((c) => game.nodes[c]!.value![b]!));
+    const { equilibria, degenerate } = bimatrixEquilibria(field, A, B);
+    this.degenerate ||= degenerate;
+    return equilibria.map((e) => {
+      const profile = new Map([
+        [root.infoset!, e.row],
+        [second.infoset!, e.col],
+      ]);
+      const value = Array.from({ length: game.teams }, (_, t) =>
+        root.children.reduce(
+          (sum, r, i) =>
+            game.nodes[r]!.children.reduce((s, c, j) => field.add(s, field.mul(field.mul(e.row[i]!, e.col[j]!), game.nodes[c]!.value![t]!)), sum),
+          field.zero,
+        ),
+      );
+      return { value, profile };
+    });
+  }
+}
+
+function classify<T>(game: ReducedGame<T>): PartKind {
+  const root = game.nodes[0]!;
+  const allLeaves = (ids: number[]) => ids.every((c) => game.nodes[c]!.kind === 'leaf');
+  if (allLeaves(root.children)) return root.kind === 'chance' ? 'chance' : 'decision';
+  const teams = new Set([...game.infosets.values()].map((h) => h.team));
+  if (root.kind === 'decision' && teams.size === 2 && game.infosets.get(root.infoset!)!.members.length === 1) {
+    const seconds = root.children.map((c) => game.nodes[c]!);
+    const set = seconds[0]!.infoset;
+    const isStage =
+      seconds.every((n) => n.kind === 'decision' && n.infoset === set && n.team !== root.team && allLeaves(n.children)) &&
+      game.infosets.get(set!)!.members.length === seconds.length;
+    if (isStage) return 'simultaneous';
+  }
+  return teams.size <= 2 ? 'sequenceForm' : 'pure';
+}
+
+function materialize<T>(flat: FlatGame, parts: Part<T>[], j: number): Behaviour<T> {
+  const behaviour: Behaviour<T> = new Array(flat.infosetCount);
+  const stack: [number, number][] = [[0, j]];
+  while (stack.length > 0) {
+    const [i, e] = stack.pop()!;
+    const part = parts[i]!;
+    const entry = part.entries[e]!;
+    for (const [infoset, probs] of entry.profile) behaviour[infoset] = probs;
+    part.leaves.forEach((leaf, k) => stack.push([leaf, entry.picks[k]!]));
+  }
+  for (let h = 0; h < behaviour.length; h++) {
+    if (!behaviour[h]) throw new Error(`internal: information set ${h} was left without a choice`);
+  }
+  return behaviour;
+}

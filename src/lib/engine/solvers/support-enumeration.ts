@@ -1,0 +1,243 @@
+/**
+ * All Nash equilibria of a two-team simultaneous stage (a bimatrix game) by support
+ * enumeration. For every pair of equal-size sets (S, K) it solves for the mixed
+ * strategy x of one team with support S that makes every opponent strategy in K
+ * indifferent and best; the extreme equilibria are the pairs (x, y) where each support
+ * lies within the other's best responses. Decoupling the equation set K from the
+ * opponent's support keeps the method complete for degenerate games, whose equilibrium
+ * sets are then the convex hulls of compatible extreme equilibria (reported with
+ * `degenerate: true`). Candidates are found in floats and, in exact mode, recomputed
+ * and checked in rational arithmetic.
+ */
+import { solveUnique } from '../linear';
+import { exactField, floatCmp, floatField, type Field, type Num } from '../numbers';
+
+export interface BimatrixGame {
+  rowLabels: string[];
+  colLabels: string[];
+  /** rowPayoff[i][j]: payoff of the row team when it plays i and the column team plays j. */
+  rowPayoff: Num[][];
+  colPayoff: Num[][];
+}
+
+export interface MixedEquilibrium {
+  row: number[];
+  col: number[];
+  payoffs: [number, number];
+  rowExact?: string[];
+  colExact?: string[];
+  payoffsExact?: [string, string];
+}
+
+export interface SupportEnumerationResult {
+  method: string;
+  equilibria: MixedEquilibrium[];
+  /** True when some strategy has more best responses than its support size: there may be continua of equilibria between the listed extreme ones. */
+  degenerate: boolean;
+}
+
+export interface StageEquilibrium<T> {
+  row: T[];
+  col: T[];
+  values: [T, T];
+}
+
+export function supportEnumeration(game: BimatrixGame, options: { exact?: boolean } = {}): SupportEnumerationResult {
+  const exact = options.exact ?? true;
+  return exact ? report(exactField, game) : report(floatField, game);
+}
+
+function report<T>(field: Field<T>, game: BimatrixGame): SupportEnumerationResult {
+  const A = game.rowPayoff.map((row) => row.map((v) => field.from(v)));
+  const B = game.colPayoff.map((row) => row.map((v) => field.from(v)));
+  const { equilibria, degenerate } = bimatrixEquilibria(field, A, B);
+  const num = (xs: T[]) => xs.map((v) => field.toNumber(v));
+  const fmt = (xs: T[]) => xs.map((v) => field.format(v)!);
+  return {
+    method: `support enumeration (${field.exact ? 'exact' : 'float'})`,
+    degenerate,
+    equilibria: equilibria.map((e) => ({
+      row: num(e.row),
+      col: num(e.col),
+      payoffs: [field.toNumber(e.values[0]), field.toNumber(e.values[1])],
+      ...(field.exact
+        ? { rowExact: fmt(e.row), colExact: fmt(e.col), payoffsExact: [field.format(e.values[0])!, field.format(e.values[1])!] as [string, string] }
+        : {}),
+    })),
+  };
+}
+
+interface Vertex<T> {
+  strategy: T[];
+  /** The opponent's best-response value against this strategy. */
+  value: T;
+  support: number[];
+  bestResponses: number[];
+}
+
+/**
+ * Extreme equilibria of the bimatrix game (A, B) in the field's arithmetic.
+ * A[i][j] and B[i][j] are the payoffs of the row and column team. Vertices are found
+ * and paired in floats; in exact mode only the vertices of float pairs are recomputed
+ * exactly, and each pair is confirmed exactly.
+ */
+export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { equilibria: StageEquilibrium<T>[]; degenerate: boolean } {
+  const m = A.length;
+  const n = A[0]!.length;
+  // x (row team) must make the column team indifferent: its payoffs are B^T.
+  const Bt = Array.from({ length: n }, (_, j) => Array.from({ length: m }, (_, i) => B[i]![j]!));
+  const floats = (P: T[][]) => P.map((row) => row.map((v) => field.toNumber(v)));
+  const [Af, Btf] = [floats(A), floats(Bt)];
+  const xs = floatCandidates(Btf, m, n).map((c) => ({ ...c, ...describe(floatField, Btf, c) }));
+  const ys = floatCandidates(Af, n, m).map((c) => ({ ...c, ...describe(floatField, Af, c) }));
+  const degenerate = [...xs, ...ys].some((v) => v.bestResponses.length > v.support.length);
+  const exactX = new Map<number, Vertex<T> | null>();
+  const exactY = new Map<number, Vertex<T> | null>();
+  const confirm = (cache: Map<number, Vertex<T> | null>, P: T[][], c: Candidate, own: number, index: number) => {
+    if (!cache.has(index)) {
+      const solved = solveFor(field, P, c.S, c.K, own);
+      cache.set(index, solved && isBestResponseVertex(field, P, solved) ? describe(field, P, solved) : null);
+    }
+    return cache.get(index)!;
+  };
+  const equilibria: StageEquilibrium<T>[] = [];
+  xs.forEach((xf, xi) => {
+    ys.forEach((yf, yi) => {
+      if (!compatible(xf, yf)) return;
+      const x = field.exact ? confirm(exactX, Bt, xf, m, xi) : (xf as unknown as Vertex<T>);
+      const y = field.exact ? confirm(exactY, A, yf, n, yi) : (yf as unknown as Vertex<T>);
+      if (x && y && compatible(x, y)) equilibria.push({ row: x.strategy, col: y.strategy, values: [y.value, x.value] });
+    });
+  });
+  return { equilibria, degenerate };
+}
+
+function compatible(x: { support: number[]; bestResponses: number[] }, y: { support: number[]; bestResponses: number[] }): boolean {
+  return y.support.every((j) => x.bestResponses.includes(j)) && x.support.every((i) => y.bestResponses.includes(i));
+}
+
+interface Candidate {
+  S: number[];
+  K: number[];
+  strategy: number[];
+  value: number;
+}
+
+/** The float pass: one (S, K) per distinct best-response vertex, with its float solution. */
+function floatCandidates(P: number[][], own: number, other: number): Candidate[] {
+  const out: Candidate[] = [];
+  const seen = new Set<string>();
+  const size = Math.min(own, other) + 1;
+  const m = new Float64Array(size * (size + 1));
+  const z = new Float64Array(size);
+  for (let k = 1; k < size; k++) {
+    const ownSets = [...subsets(own, k)];
+    for (const K of subsets(other, k)) {
+      for (const S of ownSets) {
+        if (!solveSquare(P, S, K, m, z) || !isFloatVertex(P, S, z, k)) continue;
+        const strategy = new Array<number>(own).fill(0);
+        S.forEach((i, a) => (strategy[i] = Math.abs(z[a]!) < 1e-12 ? 0 : z[a]!));
+        const key = strategy.map((v) => v.toFixed(9)).join(',');
+        if (seen.has(key)) continue;
+        seen.add(key);
+        out.push({ S, K, strategy, value: z[k]! });
+      }
+    }
+  }
+  return out;
+}
+
+/** Float check of a solution: non-negative, and no opponent action beats the value. */
+function isFloatVertex(P: number[][], S: number[], z: Float64Array, k: number): boolean {
+  for (let a = 0; a < k; a++) if (floatCmp(z[a]!, 0) < 0) return false;
+  const value = z[k]!;
+  for (const row of P) {
+    let sum = 0;
+    for (let a = 0; a < k; a++) sum += row[S[a]!]! * z[a]!;
+    if (floatCmp(sum, value) > 0) return false;
+  }
+  return true;
+}
+
+/** solveFor in floats on a preallocated buffer: unknowns s_S and the value, k+1 equations. */
+function solveSquare(P: number[][], S: number[], K: number[], m: Float64Array, z: Float64Array): boolean {
+  const k = S.length;
+  const n = k + 1;
+  const w = n + 1;
+  for (let r = 0; r < k; r++) {
+    const row = P[K[r]!]!;
+    for (let c = 0; c < k; c++) m[r * w + c] = row[S[c]!]!;
+    m[r * w + k] = -1;
+    m[r * w + n] = 0;
+  }
+  for (let c = 0; c < k; c++) m[k * w + c] = 1;
+  m[k * w + k] = 0;
+  m[k * w + n] = 1;
+  for (let c = 0; c < n; c++) {
+    let best = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(m[r * w + c]!) > Math.abs(m[best * w + c]!)) best = r;
+    const pivot = m[best * w + c]!;
+    if (Math.abs(pivot) < 1e-12) return false;
+    if (best !== c) {
+      for (let j = 0; j < w; j++) {
+        const t = m[c * w + j]!;
+        m[c * w + j] = m[best * w + j]!;
+        m[best * w + j] = t;
+      }
+    }
+    for (let r = 0; r < n; r++) {
+      if (r === c) continue;
+      const f = m[r * w + c]! / pivot;
+      if (f === 0) continue;
+      for (let j = c; j < w; j++) m[r * w + j]! -= f * m[c * w + j]!;
+    }
+  }
+  for (let r = 0; r < n; r++) z[r] = m[r * w + n]! / m[r * w + r]!;
+  return true;
+}
+
+/** Solve sum_S s = 1 and P[j] . s = value for j in K, with s zero outside S. */
+function solveFor<T>(field: Field<T>, P: T[][], S: number[], K: number[], own: number): { strategy: T[]; value: T } | null {
+  const rows = K.map((j) => [...S.map((i) => P[j]![i]!), field.neg(field.one)]);
+  rows.push([...S.map(() => field.one), field.zero]);
+  const rhs = [...K.map(() => field.zero), field.one];
+  const z = solveUnique(field, rows, rhs, S.length + 1);
+  if (!z) return null;
+  const strategy = new Array<T>(own).fill(field.zero);
+  S.forEach((i, a) => (strategy[i] = z[a]!));
+  return { strategy, value: z[S.length]! };
+}
+
+function payoffAgainst<T>(field: Field<T>, row: T[], s: T[]): T {
+  let sum = field.zero;
+  for (let i = 0; i < s.length; i++) sum = field.add(sum, field.mul(row[i]!, s[i]!));
+  return sum;
+}
+
+function isBestResponseVertex<T>(field: Field<T>, P: T[][], c: { strategy: T[]; value: T }): boolean {
+  if (c.strategy.some((v) => field.cmp(v, field.zero) < 0)) return false;
+  return P.every((row) => field.cmp(payoffAgainst(field, row, c.strategy), c.value) <= 0);
+}
+
+function describe<T>(field: Field<T>, P: T[][], c: { strategy: T[]; value: T }): Vertex<T> {
+  const strategy = c.strategy.map((v) => (field.cmp(v, field.zero) === 0 ? field.zero : v));
+  return {
+    strategy,
+    value: c.value,
+    support: strategy.flatMap((v, i) => (field.cmp(v, field.zero) > 0 ? [i] : [])),
+    bestResponses: P.flatMap((row, j) => (field.cmp(payoffAgainst(field, row, strategy), c.value) === 0 ? [j] : [])),
+  };
+}
+
+/** All k-element subsets of 0..n-1 in lexicographic order. */
+function* subsets(n: number, k: number): Generator<number[]> {
+  const idx = Array.from({ length: k }, (_, i) => i);
+  for (;;) {
+    yield [...idx];
+    let i = k - 1;
+    while (i >= 0 && idx[i] === n - k + i) i--;
+    if (i < 0) return;
+    idx[i]!++;
+    for (let j = i + 1; j < k; j++) idx[j] = idx[j - 1]! + 1;
+  }
+}
