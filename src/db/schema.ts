@@ -173,6 +173,8 @@ export const scenarioVersion = sqliteTable(
     revision: integer('revision').notNull().default(0),
     /** The version this one was started from, when it was not made from nothing. */
     basedOnId: text('based_on_id'),
+    /** Studio: a ladder being edited that has faults, kept until it builds a tree (the document keeps the last good one). */
+    ladderDraft: text('ladder_draft', { mode: 'json' }).$type<unknown>(),
   },
   (t) => [uniqueIndex('scenario_version_number_idx').on(t.scenarioId, t.number)],
 );
@@ -226,8 +228,9 @@ export const membership = sqliteTable(
 
 // ---------------------------------------------------------------------------
 // Studio: the change log of each scenario version, and briefing documents.
-// Attachments belong to one version (a new draft copies the rows, not the
-// files); the file itself lives on disk under the data folder by SHA-256.
+// An attachment row belongs to the scenario and never changes; a version's
+// document lists the attachment ids it includes (so a frozen version's list is
+// frozen with it). The file lives on disk under the data folder by SHA-256.
 
 export const scenarioChange = sqliteTable(
   'scenario_change',
@@ -255,9 +258,9 @@ export const attachment = sqliteTable(
   'attachment',
   {
     id: id(),
-    versionId: text('version_id')
+    scenarioId: text('scenario_id')
       .notNull()
-      .references(() => scenarioVersion.id, { onDelete: 'cascade' }),
+      .references(() => scenario.id, { onDelete: 'cascade' }),
     /** Set when the document belongs to one team's private brief. */
     teamId: text('team_id'),
     filename: text('filename').notNull(),
@@ -269,7 +272,7 @@ export const attachment = sqliteTable(
       .references(() => user.id),
     createdAt: createdAt(),
   },
-  (t) => [index('attachment_version_idx').on(t.versionId), index('attachment_sha_idx').on(t.sha256)],
+  (t) => [index('attachment_scenario_idx').on(t.scenarioId), index('attachment_sha_idx').on(t.sha256)],
 );
 
 // ---------------------------------------------------------------------------
