@@ -8,13 +8,16 @@
  * - A round: each party (the teams in `parties`, in that order) makes one move, seeing
  *   the moves made before it in the round. Then the third party, if there is one and the
  *   crisis stands at or above its `fromRung`, makes one move. Then, after the round named
- *   in `chance`, chance may shift the crisis (an incident at sea, a leak).
+ *   in `chance`, if the crisis stands at or above the chance's `fromRung`, chance may
+ *   shift the crisis (an incident at sea, a leak).
  * - The moves a party may make (as `moves` allows):
  *     climb up to k: move the crisis up 1, 2, ... or k rungs (never past the top);
  *     hold: leave it where it is;
  *     step down: move it down one rung (not below the bottom);
  *     settle: end the crisis where it stands by accepting a settlement; the settling
  *     team's `concessions` are added to the outcome.
+ *   A team that steps down is seen to back down: its `stepDownCosts` (if any) are added
+ *   each time it does.
  * - In the `simultaneousRound` the parties choose at the same time, without seeing each
  *   other's move: every party picks from the moves available at the round's starting
  *   rung, the climbs and step-downs add up, and if anyone settles the crisis ends at the
@@ -25,7 +28,7 @@
  * - Outcome attributes of an ending: the attributes of the rung where it ends (e.g. who
  *   controls the strait), plus, for the attributes listed in `flows` (costs, casualties),
  *   the sum over rounds of the rung each round ended on, plus the one-off attributes of
- *   concessions, third-party actions and chance outcomes along the way.
+ *   concessions, step-down costs, third-party actions and chance outcomes along the way.
  * - Each team scores an ending as the sum of weight x attribute over the attributes
  *   (an attribute whose direction is "less-is-better" counts with a minus sign).
  *
@@ -83,6 +86,8 @@ export const LadderSpecSchema = z.object({
   chance: z
     .object({
       afterRound: z.number().int().min(1),
+      /** Chance acts only when the crisis stands at or above this rung (default: always). */
+      fromRung: z.number().int().min(0).optional(),
       label: z.string().min(1).max(200),
       outcomes: z
         .array(
@@ -99,6 +104,7 @@ export const LadderSpecSchema = z.object({
     .optional(),
   flows: z.array(z.string()).optional(),
   concessions: z.record(z.string(), AttributeValues).optional(),
+  stepDownCosts: z.record(z.string(), AttributeValues).optional(),
 });
 
 export type LadderSpec = z.infer<typeof LadderSpecSchema>;
@@ -140,6 +146,7 @@ export function checkLadder(spec: LadderSpec, teams: Team[], attributeKeys: stri
   }
   if (spec.chance) {
     if (spec.chance.afterRound > spec.rounds) at(['chance', 'afterRound'], `there are only ${spec.rounds} rounds`);
+    if ((spec.chance.fromRung ?? 0) > top) at(['chance', 'fromRung'], `there is no rung ${spec.chance.fromRung}`);
     uniqueKeys(spec.chance.outcomes, ['chance', 'outcomes'], at);
     const sum = spec.chance.outcomes.reduce((s, o) => s.add(toExact(o.p)), new Fraction(0));
     if (!sum.equals(1)) at(['chance', 'outcomes'], `probabilities sum to ${formatExact(sum)}, not 1`);
@@ -148,9 +155,11 @@ export function checkLadder(spec: LadderSpec, teams: Team[], attributeKeys: stri
   (spec.flows ?? []).forEach((k, i) => {
     if (!attrs.has(k)) at(['flows', i], `unknown attribute "${k}"`);
   });
-  for (const [team, values] of Object.entries(spec.concessions ?? {})) {
-    if (!parties.has(team)) at(['concessions', team], `"${team}" is not one of the parties`);
-    checkAttrs(values, ['concessions', team], attrs, at);
+  for (const field of ['concessions', 'stepDownCosts'] as const) {
+    for (const [team, values] of Object.entries(spec[field] ?? {})) {
+      if (!parties.has(team)) at([field, team], `"${team}" is not one of the parties`);
+      checkAttrs(values, [field, team], attrs, at);
+    }
   }
   return faults;
 }
@@ -253,7 +262,7 @@ class Builder {
         node = this.ending(next, level, this.roundEnd(this.concede(totals, [team]), level), `Settled by ${this.names.get(team)} at ${this.rungName(level)} (round ${r})`);
       } else if (to === this.top) {
         node = this.ending(next, to, this.roundEnd(totals, to), `Escalation reaches ${this.rungName(to)} (round ${r})`);
-      } else node = this.partyMove(r, p + 1, to, totals, next);
+      } else node = this.partyMove(r, p + 1, to, o.move === 'step-down' ? this.backDown(totals, [team]) : totals, next);
       return { label: o.label, move: o.move, rung: to, next: node };
     });
     return this.counted({ id, kind: 'decision', team, actions });
@@ -286,7 +295,8 @@ class Builder {
     }
     const to = Math.max(0, Math.min(this.top, level + chosen.reduce((s, o) => s + o.shift, 0)));
     if (to === this.top) return this.ending(id, to, this.roundEnd(totals, to), `Escalation reaches ${this.rungName(to)} (round ${r})`);
-    return this.afterParties(r, to, totals, id);
+    const backedDown = parties.filter((_, p) => chosen[p]!.move === 'step-down');
+    return this.afterParties(r, to, this.backDown(totals, backedDown), id);
   }
 
   /** End of the parties' moves in round r: the round's flows, then the third party, then chance. */
@@ -309,7 +319,7 @@ class Builder {
 
   private afterThirdParty(r: number, level: number, totals: Totals, id: string): GameNode {
     const chance = this.spec.chance;
-    if (!chance || chance.afterRound !== r) return this.round(r + 1, level, totals, id);
+    if (!chance || chance.afterRound !== r || level < (chance.fromRung ?? 0)) return this.round(r + 1, level, totals, id);
     const outcomes: ChanceOutcome[] = chance.outcomes.map((o) => {
       const next = childId(id, o.key);
       const to = Math.max(0, Math.min(this.top, level + o.shift));
@@ -329,6 +339,10 @@ class Builder {
 
   private concede(totals: Totals, teams: string[]): Totals {
     return teams.reduce((acc, team) => add(acc, this.spec.concessions?.[team]), totals);
+  }
+
+  private backDown(totals: Totals, teams: string[]): Totals {
+    return teams.reduce((acc, team) => add(acc, this.spec.stepDownCosts?.[team]), totals);
   }
 
   /** A terminal: stock attributes of the final rung plus the accumulated totals. */

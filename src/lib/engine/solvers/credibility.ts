@@ -10,7 +10,7 @@ import { CHANCE, TERMINAL, compiledGame, sourceOf, type FlatGame } from '../comp
 import type { DecisionNode, Game } from '../model';
 import { exactField, floatField, type Field } from '../numbers';
 import { behaviourFromEquilibrium, numbersOf, profileValues, type Behaviour, type Equilibrium } from '../profile';
-import { describeNode, indexGame } from '../tree';
+import { edgeLabels, indexGame } from '../tree';
 import { solveSubgamePerfect } from './subgame-perfect';
 
 export type MarkKind = 'threat' | 'promise';
@@ -78,11 +78,12 @@ function judge<T>(game: Game, flat: FlatGame, field: Field<T>, equilibrium: Equi
       if (field.cmp(p, probs[top]!) > 0) top = a;
     });
     const credible = field.cmp(probs[k]!, field.zero) > 0 && field.cmp(margin, field.zero) >= 0;
-    const where = describeNode(index, node);
-    const amount = Math.abs(field.toNumber(margin));
+    const labels = edgeLabels(index, node);
+    const where = labels.length === 0 ? 'At the start' : `After ${labels.join(' › ')}`;
+    const amount = Number(Math.abs(field.toNumber(margin)).toPrecision(4));
     const explanation = credible
-      ? `Credible: if play reaches ${where}, ${teamName(node.team)} gains ${amount} by carrying out "${mark.action}" rather than its best alternative.`
-      : `Not credible: if play reaches ${where}, ${teamName(node.team)} would lose ${amount} by carrying out "${mark.action}"; it would choose "${node.actions[top]!.label}".`;
+      ? `Credible. ${where}, ${teamName(node.team)} does best by carrying out "${mark.action}": it gains ${amount} over its best alternative.`
+      : `Not credible. ${where}, ${teamName(node.team)} would lose ${amount} by carrying out "${mark.action}"; it would choose "${node.actions[top]!.label}" instead.`;
     return {
       nodeId: mark.nodeId,
       action: mark.action,
