@@ -115,6 +115,11 @@ export function scenarioJsonSchema(): Record<string, unknown> {
   return { $id: SCENARIO_SCHEMA_ID, ...z.toJSONSchema(ScenarioSchema, { target: 'draft-2020-12' }) };
 }
 
+/** The text of scenarios/schema.json. */
+export function scenarioJsonSchemaText(): string {
+  return `${JSON.stringify(scenarioJsonSchema(), null, 2)}\n`;
+}
+
 /** The engine's game model of a scenario. */
 export function scenarioGame(scenario: Pick<Scenario, 'teams' | 'attributes' | 'weights' | 'ladder' | 'tree'>): Game {
   return {
