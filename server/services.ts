@@ -9,6 +9,7 @@ import { MAIL_SINK_URL } from '../src/lib/mail';
 import { forget, lookup, provide } from '../src/lib/runtime';
 import { startMailSink, type MailSink } from './mail-sink';
 import { seedDemo } from './seed';
+import { exerciseHub } from './live/hub';
 
 export type Services = { mailSink: MailSink | null; seeded: boolean; stop(): Promise<void> };
 
@@ -23,10 +24,12 @@ export async function startServices(): Promise<Services> {
   if (mailSink) provide(MAIL_SINK_URL, mailSink.url);
   const seeded = isEmpty() && process.env.RUNGWISE_SEED !== 'off';
   if (seeded) await seedDemo();
+  exerciseHub().start();
   const services: Services = {
     mailSink,
     seeded,
     async stop() {
+      exerciseHub().stop();
       await mailSink?.close();
       forget(MAIL_SINK_URL);
       closeDatabase();

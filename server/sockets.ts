@@ -10,6 +10,8 @@ import { WebSocketServer, type WebSocket } from 'ws';
 import type { Decision } from '../src/lib/access';
 import { userFromHeaders, type SessionUser } from '../src/lib/auth';
 import { loadConfig } from '../src/lib/config';
+import { exerciseRoute } from './live/route';
+import { reportRoute } from './report/route';
 
 export type SocketContext = { user: SessionUser; params: Record<string, string>; request: IncomingMessage };
 
@@ -20,7 +22,7 @@ export type SocketRoute = {
   open(socket: WebSocket, ctx: SocketContext): void;
 };
 
-const ROUTES: SocketRoute[] = [];
+const ROUTES: SocketRoute[] = [exerciseRoute, reportRoute];
 
 export const MAX_MESSAGE_BYTES = 1 << 20;
 

@@ -30,3 +30,11 @@ export function passwordResetMail(name: string, link: string): Mail {
     { href: link, label: 'Choose a new password (valid for one hour)' },
   );
 }
+
+export function exerciseSeatMail(inviterName: string, exerciseTitle: string, seatLabel: string, link: string): Mail {
+  return compose(
+    `You are on the exercise “${exerciseTitle}”`,
+    [`${inviterName} has added you to the Rungwise exercise “${exerciseTitle}” ${seatLabel}.`, 'Sign in and open the exercise from the link below.'],
+    { href: link, label: 'Open the exercise' },
+  );
+}
