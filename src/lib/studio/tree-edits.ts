@@ -20,7 +20,7 @@ export type TreeEdit =
   | { kind: 'mover'; nodeId: string; team: string }
   | { kind: 'infoset'; nodeId: string; infoset: string | null }
   | { kind: 'rename'; nodeId: string; childId: string; label: string; to: string }
-  | { kind: 'add-action'; nodeId: string; label: string; next: GameNode }
+  | { kind: 'add-action'; nodeId: string; label: string; next: GameNode; p?: Num }
   | { kind: 'remove-action'; nodeId: string; childId: string; label: string }
   | { kind: 'replace'; nodeId: string; node: GameNode };
 
@@ -154,7 +154,7 @@ function patchEdges(node: GameNode, edit: Extract<TreeEdit, { kind: 'rename' | '
   if (edit.kind === 'add-action') {
     if (edges.some((e) => e.label === edit.label)) return `an action “${edit.label}” is already at node ${node.id}`;
     const next = withFreshIds(edit.next, freeChildId(node, edit.label));
-    const edge = node.kind === 'chance' ? { label: edit.label, p: 0, next } : { label: edit.label, next };
+    const edge = node.kind === 'chance' ? { label: edit.label, p: edit.p ?? 0, next } : { label: edit.label, next };
     return withEdges(node, [...edges, edge]);
   }
   const at = edges.findIndex((e) => e.next.id === edit.childId);
