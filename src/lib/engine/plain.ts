@@ -75,7 +75,7 @@ function convert(raw: unknown, parts: Part[], id: string, teams: string[], fault
 /** Model fault paths back in the plain file's terms: "outcomes" is "chance", payoffs are by position. */
 function plainPath(path: string, teams: string[]): string {
   return path
-    .replace(/\.outcomes\[/g, '.chance[')
+    .replace(/\.outcomes(?=\[|\.|$)/g, '.chance')
     .replace(/\.payoffs\.(.+)$/, (_, team: string) => {
       const i = teams.indexOf(team);
       return i >= 0 ? `.payoffs[${i}]` : `.payoffs.${team}`;

@@ -72,11 +72,12 @@ export interface LogitFit {
   teams: Record<string, TeamFit>;
   logLikelihood: number;
   uniformLogLikelihood: number;
-  /** Upper end of the lambda search; a lambda at this bound means play looks fully rational. */
+  /** Upper end of the lambda search; a lambda at this bound means play looks as rational as the search can tell. */
   maxLambda: number;
 }
 
 export interface LogitFitOptions {
+  /** Upper end of the search; by default it starts at 200 / (payoff range) and widens tenfold, up to three times, while the best lambda sits at it. */
   maxLambda?: number;
   progress?: (fraction: number, phase: string) => void;
 }
@@ -96,21 +97,15 @@ function defaultMaxLambda(flat: FlatGame): number {
 export function fitLogit(game: Game, observations: Observation[], options: LogitFitOptions = {}): LogitFit {
   const flat = compiledGame(game);
   const obs = resolve(game, flat, observations);
-  const maxLambda = options.maxLambda ?? defaultMaxLambda(flat);
-  const lambdas = new Float64Array(game.teams.length);
   const total = (l: Float64Array) => logLikelihood(obs, behaviourRecord(flat, qreFlat(flat, l)));
   const observed = game.teams.map((_, t) => obs.some((o) => o.team === t));
-  const sweeps = 3;
-  for (let sweep = 0; sweep < sweeps; sweep++) {
-    game.teams.forEach((_, t) => {
-      if (!observed[t]) return;
-      lambdas[t] = maximise((x) => {
-        const trial = lambdas.slice();
-        trial[t] = x;
-        return total(trial);
-      }, maxLambda);
-      options.progress?.((sweep * game.teams.length + t + 1) / (sweeps * game.teams.length), 'fitting logit lambda');
-    });
+  let maxLambda = options.maxLambda ?? defaultMaxLambda(flat);
+  let lambdas = new Float64Array(game.teams.length);
+  for (let widening = 0; ; widening++) {
+    lambdas = coordinateAscent(game.teams.length, observed, total, maxLambda, options.progress);
+    const atBound = lambdas.some((l) => l > 0.99 * maxLambda);
+    if (options.maxLambda !== undefined || !atBound || widening === 3) break;
+    maxLambda *= 10;
   }
   const behaviour = behaviourRecord(flat, qreFlat(flat, lambdas));
   const teams: Record<string, TeamFit> = {};
@@ -125,9 +120,32 @@ export function fitLogit(game: Game, observations: Observation[], options: Logit
   return { teams, logLikelihood: logLikelihood(obs, behaviour), uniformLogLikelihood: uniformLogLikelihood(obs), maxLambda };
 }
 
+function coordinateAscent(
+  teams: number,
+  observed: boolean[],
+  total: (lambdas: Float64Array) => number,
+  maxLambda: number,
+  progress?: LogitFitOptions['progress'],
+): Float64Array {
+  const lambdas = new Float64Array(teams);
+  const sweeps = 2;
+  for (let sweep = 0; sweep < sweeps; sweep++) {
+    for (let t = 0; t < teams; t++) {
+      if (!observed[t]) continue;
+      lambdas[t] = maximise((x) => {
+        const trial = lambdas.slice();
+        trial[t] = x;
+        return total(trial);
+      }, maxLambda);
+      progress?.((sweep * teams + t + 1) / (sweeps * teams), 'fitting logit lambda');
+    }
+  }
+  return lambdas;
+}
+
 /** Maximum of f on [0, max]: the best of a geometric grid, refined by golden-section search. */
 function maximise(f: (x: number) => number, max: number): number {
-  const grid = [0, ...Array.from({ length: 24 }, (_, k) => max * 10 ** (-3 + (3 * k) / 23))];
+  const grid = [0, ...Array.from({ length: 16 }, (_, k) => max * 10 ** (-3 + (3 * k) / 15))];
   const values = grid.map(f);
   let best = 0;
   values.forEach((v, k) => {
@@ -140,7 +158,7 @@ function maximise(f: (x: number) => number, max: number): number {
   let d = a + phi * (b - a);
   let fc = f(c);
   let fd = f(d);
-  for (let k = 0; k < 40; k++) {
+  for (let k = 0; k < 24; k++) {
     if (fc > fd) {
       b = d;
       d = c;

@@ -12,7 +12,7 @@ import { mulberry32, type Rng } from '../rng';
 import { pathTo } from '../tree';
 import { solveFlat } from './backward-induction';
 import type { Progress } from './qre';
-import { rollUp } from './subgame-perfect';
+import { RollUpSession } from './subgame-perfect';
 
 export type PayoffDistribution =
   | { kind: 'uniform'; low: Num; high: Num }
@@ -60,25 +60,21 @@ export function sampleDistribution(d: PayoffDistribution, rng: Rng): number {
 export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarloOptions): MonteCarloResult {
   const flat = compiledGame(game);
   const source = sourceOf(flat);
-  const slots = ranges.map((r) => {
+  const targets = ranges.map((r) => {
     const i = source.indexOf.get(r.terminalId);
     const t = game.teams.findIndex((team) => team.id === r.team);
     if (i === undefined || flat.mover[i] !== TERMINAL) throw new Error(`payoff range: "${r.terminalId}" is not a terminal node`);
     if (t < 0) throw new Error(`payoff range: unknown team "${r.team}"`);
     checkDistribution(r);
-    return flat.aux[i]! * flat.teams + t;
+    return { terminal: i, team: t };
   });
   const rng = mulberry32(options.seed);
   const share = new Float64Array(flat.size);
-  const payoff = flat.payoff.slice();
-  const sampled: FlatGame = { ...flat, payoff };
-  const perfect = isPerfectInformation(flat);
   const reach = new Float64Array(flat.size);
   const every = Math.max(1, Math.floor(options.samples / 100));
+  const solveSample = isPerfectInformation(flat) ? perfectSampler(flat, targets) : rollUpSampler(flat, targets);
   for (let s = 0; s < options.samples; s++) {
-    slots.forEach((slot, k) => (payoff[slot] = sampleDistribution(ranges[k]!.distribution, rng)));
-    if (perfect) reachOfChoices(sampled, solveFlat(sampled).choice, reach);
-    else reachOfBehaviour(sampled, rollUp(sampled, floatField, { payoff: Array.from(payoff), prob: Array.from(flat.prob) }, { maxListed: 1, count: false }).behaviours[0]!, reach);
+    solveSample(ranges.map((r) => sampleDistribution(r.distribution, rng)), reach);
     for (let i = 0; i < flat.size; i++) if (flat.mover[i] === TERMINAL) share[i]! += reach[i]!;
     if (s % every === every - 1) options.progress?.((s + 1) / options.samples, 'Monte Carlo samples');
   }
@@ -95,6 +91,28 @@ export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarl
   }
   outcomes.sort((a, b) => b.probability - a.probability);
   return { samples: options.samples, seed: options.seed, generator: 'mulberry32', outcomes };
+}
+
+type Target = { terminal: number; team: number };
+type Sampler = (values: number[], reach: Float64Array) => void;
+
+/** Perfect information: the float kernel on a copy of the payoffs. */
+function perfectSampler(flat: FlatGame, targets: Target[]): Sampler {
+  const payoff = flat.payoff.slice();
+  const sampled: FlatGame = { ...flat, payoff };
+  return (values, reach) => {
+    targets.forEach((t, k) => (payoff[flat.aux[t.terminal]! * flat.teams + t.team] = values[k]!));
+    reachOfChoices(sampled, solveFlat(sampled).choice, reach);
+  };
+}
+
+/** Imperfect information: one live roll-up; each sample re-solves only the subgames above the sampled terminals. */
+function rollUpSampler(flat: FlatGame, targets: Target[]): Sampler {
+  const session = new RollUpSession(flat, floatField, { payoff: Array.from(flat.payoff), prob: Array.from(flat.prob) });
+  return (values, reach) => {
+    session.setPayoffs(targets.map((t, k) => ({ ...t, value: values[k]! })));
+    reachOfBehaviour(flat, session.behaviour(), reach);
+  };
 }
 
 function checkDistribution(range: PayoffRange) {

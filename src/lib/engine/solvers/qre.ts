@@ -8,10 +8,13 @@
  *
  * In perfect-information games the agent QRE is unique and one bottom-up pass computes it.
  * Otherwise it is a fixed point; the solver traces it by continuation from lambda = 0
- * (where it is uniform) in growing steps, each corrected by a damped fixed-point
- * iteration started from the previous point, so it follows the principal branch.
+ * (where it is uniform) in growing steps, each corrected by Newton's method started
+ * from the previous point, so it follows the principal branch. Proper subgames are
+ * traced separately, bottom-up. If the branch turns back in lambda (a fold) the
+ * corrector fails and the result says converged: false.
  */
 import { CHANCE, TERMINAL, compiledGame, sourceOf, type FlatGame } from '../compile';
+import { properSubgameRoots } from '../subgames';
 import type { Game } from '../model';
 import { infosetLabels } from '../profile';
 
@@ -73,13 +76,25 @@ function logit(q: ArrayLike<number>, count: number, lambda: number, probs: Float
 }
 
 /**
- * One bottom-up pass: values under the profile; singleton information sets respond
- * exactly (logit of their children's values), shared sets keep their current probabilities.
+ * One bottom-up pass over `nodes` (flat indices, parents before children; nodes outside
+ * the list must already have values; with `everyNode`, over all nodes 0..length-1): values under the profile; singleton information
+ * sets respond exactly (logit of their children's values), shared sets keep their
+ * current probabilities.
  */
-function backwardPass(flat: FlatGame, lambdas: ArrayLike<number>, offset: Int32Array, probs: Float64Array, shared: Map<number, number[]>, value: Float64Array) {
-  const { teams, size, mover, childStart, aux, payoff, prob } = flat;
-  const q = new Float64Array(64);
-  for (let i = size - 1; i >= 0; i--) {
+function backwardPass(
+  flat: FlatGame,
+  nodes: ArrayLike<number>,
+  lambdas: ArrayLike<number>,
+  offset: Int32Array,
+  probs: Float64Array,
+  shared: Map<number, number[]>,
+  value: Float64Array,
+  everyNode = false,
+) {
+  const { teams, mover, childStart, aux, payoff, prob } = flat;
+  let q = new Float64Array(16);
+  for (let n = nodes.length - 1; n >= 0; n--) {
+    const i = everyNode ? n : nodes[n]!;
     const m = mover[i]!;
     const row = i * teams;
     if (m === TERMINAL) {
@@ -99,9 +114,9 @@ function backwardPass(flat: FlatGame, lambdas: ArrayLike<number>, offset: Int32A
       at = offset[h]!;
       weights = probs;
       if (!shared.has(h)) {
-        const qs = count <= q.length ? q : new Float64Array(count);
-        for (let k = 0; k < count; k++) qs[k] = value[(first + k) * teams + m]!;
-        logit(qs, count, lambdas[m]!, probs, at);
+        if (count > q.length) q = new Float64Array(count);
+        for (let k = 0; k < count; k++) q[k] = value[(first + k) * teams + m]!;
+        logit(q, count, lambdas[m]!, probs, at);
       }
     }
     for (let t = 0; t < teams; t++) {
@@ -112,12 +127,13 @@ function backwardPass(flat: FlatGame, lambdas: ArrayLike<number>, offset: Int32A
   }
 }
 
-function reachProbabilities(flat: FlatGame, offset: Int32Array, probs: Float64Array, reach: Float64Array) {
-  const { size, mover, childStart, aux, prob } = flat;
-  reach[0] = 1;
-  for (let i = 0; i < size; i++) {
+/** Reach probabilities within a part, from its root (reach 1) down through `nodes`. */
+function reachProbabilities(flat: FlatGame, nodes: ArrayLike<number>, offset: Int32Array, probs: Float64Array, reach: Float64Array) {
+  const { mover, childStart, aux, prob } = flat;
+  reach[nodes[0]!] = 1;
+  for (let n = 0; n < nodes.length; n++) {
+    const i = nodes[n]!;
     const m = mover[i]!;
-    if (m === TERMINAL) continue;
     const first = childStart[i]!;
     const at = m === CHANCE ? aux[i]! : offset[aux[i]!]!;
     const weights = m === CHANCE ? prob : probs;
@@ -126,31 +142,31 @@ function reachProbabilities(flat: FlatGame, offset: Int32Array, probs: Float64Ar
 }
 
 /**
- * The equilibrium condition at shared information sets in log-odds form: with
- * y[h,k] = log(p[h,k] / p[h,0]) for k >= 1, a logit QRE satisfies
+ * The equilibrium condition at the shared information sets of one part, in log-odds
+ * form: with y[h,k] = log(p[h,k] / p[h,0]) for k >= 1, a logit QRE satisfies
  * y[h,k] = lambda * (Q[h,k] - Q[h,0]). Residual G(y) = y - lambda * dQ.
  */
 class SharedSystem {
   readonly dim: number;
   private readonly sets: { h: number; members: number[]; count: number; at: number }[] = [];
-  private readonly reach: Float64Array;
-  readonly value: Float64Array;
 
   constructor(
     private readonly flat: FlatGame,
+    private readonly nodes: Int32Array,
     private readonly offset: Int32Array,
-    readonly probs: Float64Array,
+    private readonly probs: Float64Array,
     private readonly shared: Map<number, number[]>,
+    sets: number[],
+    private readonly value: Float64Array,
+    private readonly reach: Float64Array,
   ) {
     let dim = 0;
-    for (const [h, members] of shared) {
+    for (const h of sets) {
       const count = offset[h + 1]! - offset[h]!;
-      this.sets.push({ h, members, count, at: dim });
+      this.sets.push({ h, members: shared.get(h)!, count, at: dim });
       dim += count - 1;
     }
     this.dim = dim;
-    this.reach = new Float64Array(flat.size);
-    this.value = new Float64Array(flat.size * flat.teams);
   }
 
   /** Set the shared probabilities from log-odds y. */
@@ -172,18 +188,18 @@ class SharedSystem {
 
   /** Residual G(y) at lambdas, written into out. */
   residual(y: Float64Array, lambdas: ArrayLike<number>, out: Float64Array) {
-    const { flat } = this;
+    const { flat, value, reach } = this;
     this.apply(y);
-    backwardPass(flat, lambdas, this.offset, this.probs, this.shared, this.value);
-    reachProbabilities(flat, this.offset, this.probs, this.reach);
+    backwardPass(flat, this.nodes, lambdas, this.offset, this.probs, this.shared, value);
+    reachProbabilities(flat, this.nodes, this.offset, this.probs, reach);
     for (const { members, count, at } of this.sets) {
       const m = flat.mover[members[0]!]!;
       let mass = 0;
-      for (const x of members) mass += this.reach[x]!;
+      for (const x of members) mass += reach[x]!;
       const q = new Float64Array(count);
       for (const x of members) {
-        const w = mass > 0 ? this.reach[x]! / mass : 1 / members.length;
-        for (let k = 0; k < count; k++) q[k]! += w * this.value[(flat.childStart[x]! + k) * flat.teams + m]!;
+        const w = mass > 0 ? reach[x]! / mass : 1 / members.length;
+        for (let k = 0; k < count; k++) q[k]! += w * value[(flat.childStart[x]! + k) * flat.teams + m]!;
       }
       for (let k = 1; k < count; k++) out[at + k - 1] = y[at + k - 1]! - lambdas[m]! * (q[k]! - q[0]!);
     }
@@ -251,7 +267,87 @@ function solveDense(A: number[][], b: number[]): number[] | null {
   return x;
 }
 
-/** The agent logit QRE of a flat game at per-team lambdas (indexed by team). */
+/** Internal nodes of the proper subgame rooted at `root`, stopping at nested subgame roots and terminals. */
+function partNodes(flat: FlatGame, roots: Uint8Array, root: number): Int32Array {
+  const out = [root];
+  for (let head = 0; head < out.length; head++) {
+    const i = out[head]!;
+    for (let c = flat.childStart[i]!; c < flat.childStart[i + 1]!; c++) {
+      if (flat.mover[c] !== TERMINAL && !roots[c]) out.push(c);
+    }
+  }
+  return Int32Array.from(out);
+}
+
+interface Part {
+  nodes: Int32Array;
+  /** Shared information sets inside the part. */
+  sets: number[];
+}
+
+interface Structure {
+  shared: Map<number, number[]>;
+  parts: Part[];
+}
+
+const structureCache = new WeakMap<FlatGame, Structure>();
+
+/** The shared information sets and the proper subgames (bottom-up, with their internal nodes and shared sets) of a flat game. */
+function structureOf(flat: FlatGame): Structure {
+  const cached = structureCache.get(flat);
+  if (cached) return cached;
+  const shared = sharedSets(flat);
+  const parts: Part[] = [];
+  if (shared.size > 0) collectParts(flat, shared, parts);
+  const structure = { shared, parts };
+  structureCache.set(flat, structure);
+  return structure;
+}
+
+function collectParts(flat: FlatGame, shared: Map<number, number[]>, parts: Part[]) {
+  const roots = properSubgameRoots(flat);
+  const firstMember = new Map([...shared].map(([h, members]) => [members[0]!, h]));
+  for (let i = flat.size - 1; i >= 0; i--) {
+    if (flat.mover[i] === TERMINAL || !roots[i]) continue;
+    const nodes = partNodes(flat, roots, i);
+    parts.push({ nodes, sets: [...nodes].flatMap((x) => (firstMember.has(x) ? [firstMember.get(x)!] : [])) });
+  }
+}
+
+/** Trace the QRE of one part from lambda = 0 to the target lambdas. Returns false if the corrector fails. */
+function tracePart(system: SharedSystem, lambdas: ArrayLike<number>, tolerance: number): boolean {
+  const y = new Float64Array(system.dim);
+  const at = new Float64Array(lambdas.length);
+  const scaled = (s: number) => {
+    for (let t = 0; t < lambdas.length; t++) at[t] = s * lambdas[t]!;
+    return at;
+  };
+  let s = 0;
+  let step = 0.1;
+  while (s < 1) {
+    const saved = y.slice();
+    const next = Math.min(1, s + step);
+    if (newton(system, y, scaled(next), tolerance)) {
+      s = next;
+      step = Math.min(step * 1.5, 0.5);
+    } else {
+      y.set(saved);
+      step /= 2;
+      if (step < 1e-6) {
+        system.residual(y, scaled(s), new Float64Array(system.dim));
+        return false;
+      }
+    }
+  }
+  system.residual(y, scaled(1), new Float64Array(system.dim));
+  return true;
+}
+
+/**
+ * The agent logit QRE of a flat game at per-team lambdas (indexed by team). The agent
+ * QRE of a proper subgame depends only on that subgame, so parts with shared information
+ * sets are traced one at a time, bottom-up, with the values of their nested parts fixed.
+ */
 export function qreFlat(flat: FlatGame, lambdas: ArrayLike<number>, options: QreTraceOptions = {}): FlatQre {
   const tolerance = options.tolerance ?? 1e-10;
   const offset = infosetOffsets(flat);
@@ -260,43 +356,30 @@ export function qreFlat(flat: FlatGame, lambdas: ArrayLike<number>, options: Qre
     const count = offset[h + 1]! - offset[h]!;
     probs.fill(1 / count, offset[h]!, offset[h + 1]!);
   }
-  const shared = sharedSets(flat);
+  const value = new Float64Array(flat.size * flat.teams);
+  const { shared, parts } = structureOf(flat);
   if (shared.size === 0) {
-    const value = new Float64Array(flat.size * flat.teams);
-    backwardPass(flat, lambdas, offset, probs, shared, value);
+    backwardPass(flat, { length: flat.size } as Int32Array, lambdas, offset, probs, shared, value, true);
     options.progress?.(1, 'logit QRE');
-    return { offset, probs, value, converged: true, steps: 1 };
+    return { offset, probs, value, converged: true, steps: 0 };
   }
-  const system = new SharedSystem(flat, offset, probs, shared);
-  const y = new Float64Array(system.dim);
-  const at = new Float64Array(lambdas.length);
-  const scaled = (s: number) => {
-    for (let t = 0; t < lambdas.length; t++) at[t] = s * lambdas[t]!;
-    return at;
-  };
-  let s = 0;
-  let step = 0.05;
-  let steps = 0;
+  for (let i = 0; i < flat.size; i++) {
+    if (flat.mover[i] !== TERMINAL) continue;
+    for (let t = 0; t < flat.teams; t++) value[i * flat.teams + t] = flat.payoff[flat.aux[i]! * flat.teams + t]!;
+  }
+  const reach = new Float64Array(flat.size);
   let converged = true;
-  while (s < 1) {
-    const saved = y.slice();
-    const next = Math.min(1, s + step);
-    steps++;
-    if (newton(system, y, scaled(next), tolerance)) {
-      s = next;
-      step = Math.min(step * 1.5, 0.25);
-      options.progress?.(s, 'tracing logit QRE from lambda = 0');
-    } else {
-      y.set(saved);
-      step /= 2;
-      if (step < 1e-6) {
-        converged = false;
-        break;
-      }
+  let traced = 0;
+  parts.forEach(({ nodes, sets }, k) => {
+    if (sets.length === 0) {
+      backwardPass(flat, nodes, lambdas, offset, probs, shared, value);
+      return;
     }
-  }
-  system.residual(y, scaled(s), new Float64Array(system.dim));
-  return { offset, probs, value: system.value, converged, steps };
+    converged &&= tracePart(new SharedSystem(flat, nodes, offset, probs, shared, sets, value, reach), lambdas, tolerance);
+    traced++;
+    options.progress?.((k + 1) / parts.length, 'logit QRE by subgames');
+  });
+  return { offset, probs, value, converged, steps: traced };
 }
 
 export interface QreOptions {
@@ -313,7 +396,7 @@ export interface QreResult {
   /** Expected payoff of every team at the root, in team order. */
   payoffs: number[];
   converged: boolean;
-  /** Continuation steps taken (1 for perfect information). */
+  /** Proper subgames traced by continuation (0 or 1 for perfect information). */
   steps: number;
 }
 

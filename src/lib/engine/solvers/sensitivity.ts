@@ -290,5 +290,6 @@ function searchBound(same: (x: number) => boolean, x0: number, scale: number, di
     if (same(x0 + direction * mid)) inside = mid;
     else outside = mid;
   }
-  return Math.round((x0 + (direction * (inside + outside)) / 2) / resolution) * resolution;
+  const decimals = Math.max(0, -Math.round(Math.log10(resolution)));
+  return Number((x0 + (direction * (inside + outside)) / 2).toFixed(decimals));
 }

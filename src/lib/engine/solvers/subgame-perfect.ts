@@ -224,6 +224,18 @@ export class RollUpSession<T> {
     for (const root of chain) this.parts[root]!.entries = this.solvers.get(root)!.list(1);
   }
 
+  /** Set several payoffs, then re-solve every part above any of them, bottom-up. */
+  setPayoffs(changes: { terminal: number; team: number; value: T }[]) {
+    const roots = new Set<number>();
+    for (const { terminal, team, value } of changes) {
+      this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
+      this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
+      for (const root of this.chainAbove(terminal)) roots.add(root);
+    }
+    // Children have larger flat indices than their parents: descending order is bottom-up.
+    for (const root of [...roots].sort((a, b) => b - a)) this.parts[root]!.entries = this.solvers.get(root)!.list(1);
+  }
+
   /** What equilibrium play does along a chain: the supports of the reached information sets of its parts. */
   playSignature(chain: number[]): string {
     const pieces: string[] = [];
