@@ -50,6 +50,9 @@ function workerExecArgv(): string[] {
 
 let pool: Piscina<WorkerTask, WorkerReply> | null = null;
 
+// piscina infers its transfer-list type from the last postMessage overload of @types/node, which is the options object.
+type TransferList = NonNullable<NonNullable<Parameters<Piscina['run']>[1]>['transferList']>;
+
 function solverPool(): Piscina<WorkerTask, WorkerReply> {
   pool ??= new Piscina<WorkerTask, WorkerReply>({
     filename: new URL('./worker.ts', import.meta.url).href,
@@ -69,7 +72,7 @@ export async function runSolve<R = unknown>(job: AnalysisJob, options: SolveOpti
   try {
     const reply = await solverPool().run(
       { job, port: channel.port2 },
-      { transferList: [channel.port2], ...(options.signal ? { signal: options.signal } : {}) },
+      { transferList: [channel.port2] as unknown as TransferList, ...(options.signal ? { signal: options.signal } : {}) },
     );
     if (reply.ok) return reply.result as R;
     throw new SolveError(reply.kind, reply.message, reply.kind === 'invalid-game' ? reply.faults : []);

@@ -100,7 +100,7 @@ export function fitLogit(game: Game, observations: Observation[], options: Logit
   const total = (l: Float64Array) => logLikelihood(obs, behaviourRecord(flat, qreFlat(flat, l)));
   const observed = game.teams.map((_, t) => obs.some((o) => o.team === t));
   let maxLambda = options.maxLambda ?? defaultMaxLambda(flat);
-  let lambdas = new Float64Array(game.teams.length);
+  let lambdas: Float64Array = new Float64Array(game.teams.length);
   for (let widening = 0; ; widening++) {
     lambdas = coordinateAscent(game.teams.length, observed, total, maxLambda, options.progress);
     const atBound = lambdas.some((l) => l > 0.99 * maxLambda);
@@ -127,7 +127,7 @@ function coordinateAscent(
   maxLambda: number,
   progress?: LogitFitOptions['progress'],
 ): Float64Array {
-  const lambdas = new Float64Array(teams);
+  const lambdas: Float64Array = new Float64Array(teams);
   const sweeps = 2;
   for (let sweep = 0; sweep < sweeps; sweep++) {
     for (let t = 0; t < teams; t++) {
