@@ -1,6 +1,6 @@
 /** Review: actual play against the subgame-perfect equilibrium. Pure functions over a game and play records. */
 export { reviewPlay, DEFAULT_TREMBLE, type ReviewOptions } from './review';
-export { compareRuns, UNFINISHED, type RunInput, type RunsOverview, type RunSummary, type RungFrequency, type OutcomeCount } from './runs';
+export { compareRuns, compareReviews, UNFINISHED, type RunInput, type RunsOverview, type RunSummary, type RungFrequency, type OutcomeCount } from './runs';
 export { PlayMismatch } from './paths';
 export { REVIEW_TABLES, RUNS_TABLES, type ReviewTable, type RunsTable } from './tables';
 export { toCsv, csvCell, type Column } from './csv';

@@ -96,7 +96,12 @@ function teamsOf(reviews: Review[]): TeamRef[] {
 }
 
 export function compareRuns(inputs: RunInput[], options: ReviewOptions = {}): RunsOverview {
-  const reviews = inputs.map(({ game, record }) => reviewPlay(game, record, options));
-  const runs = reviews.map((review, i) => summarise(review, inputs[i]!.record));
+  return compareReviews(inputs.map(({ game, record }) => ({ review: reviewPlay(game, record, options), record })));
+}
+
+/** The same from reviews already made. */
+export function compareReviews(items: { review: Review; record: PlayRecord }[]): RunsOverview {
+  const reviews = items.map((item) => item.review);
+  const runs = items.map(({ review, record }) => summarise(review, record));
   return { teams: teamsOf(reviews), runs, rungs: rungFrequencies(reviews), outcomes: outcomeCounts(runs) };
 }

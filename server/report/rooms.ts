@@ -1,0 +1,24 @@
+/** The open report documents of this process, one room per exercise, closed when the last peer leaves. */
+import type { WebSocket } from 'ws';
+import type { SessionUser } from '../../src/lib/auth';
+import { shared } from '../../src/lib/runtime';
+import { ReportRoom, type PeerMode } from './room';
+
+const rooms = () => shared('report.rooms', () => new Map<string, ReportRoom>());
+
+function closeRoom(room: ReportRoom): void {
+  if (rooms().get(room.exerciseId) !== room) return;
+  rooms().delete(room.exerciseId);
+  room.compact();
+  room.destroy();
+}
+
+export function joinReport(exerciseId: string, socket: WebSocket, user: SessionUser, mode: PeerMode): ReportRoom {
+  let room = rooms().get(exerciseId);
+  if (!room) {
+    room = new ReportRoom(exerciseId, closeRoom);
+    rooms().set(exerciseId, room);
+  }
+  room.join(socket, user, mode);
+  return room;
+}

@@ -1,0 +1,100 @@
+/**
+ * The part of the tree that matters for the review, drawn with React Flow:
+ * the line actually played, the subgame-perfect line, and (dotted) where
+ * equilibrium play from each deviation would have led. A small tidy layout:
+ * depth left to right, leaves top to bottom, parents centred on their children.
+ */
+import { Handle, Position, ReactFlow, type Edge, type Node, type NodeProps } from '@xyflow/react';
+import '@xyflow/react/dist/base.css';
+import { useMemo } from 'react';
+import type { PathTree as Tree, TeamRef } from '../../lib/review/types';
+import { ACTUAL_COLOUR, EQUILIBRIUM_COLOUR } from '../../lib/report/render/chart';
+
+const COLUMN = 230;
+const ROW = 96;
+const COUNTERFACTUAL = '#2f4f73';
+
+type TreeNodeData = { title: string; kind: Tree['nodes'][number]['kind']; lines: string[]; onActual: boolean };
+
+function TreeNodeView({ data }: NodeProps<Node<TreeNodeData>>) {
+  const tone = data.kind === 'terminal' ? 'border-ink-300 bg-paper' : data.kind === 'chance' ? 'border-haze-700/40 bg-haze-100' : 'border-ink-300 bg-white';
+  return (
+    <div className={`w-44 rounded-md border px-2.5 py-1.5 text-xs shadow-sm ${tone} ${data.onActual ? 'ring-2 ring-bronze-500/60' : ''}`}>
+      <Handle type="target" position={Position.Left} className="!h-1 !w-1 !border-0 !bg-transparent" />
+      <div className="font-semibold text-ink-900">{data.title}</div>
+      {data.lines.map((line) => (
+        <div key={line} className="text-ink-600">
+          {line}
+        </div>
+      ))}
+      <Handle type="source" position={Position.Right} className="!h-1 !w-1 !border-0 !bg-transparent" />
+    </div>
+  );
+}
+
+const NODE_TYPES = { reviewNode: TreeNodeView };
+
+function layout(tree: Tree): Map<string, { x: number; y: number }> {
+  const children = new Map<string, string[]>();
+  const hasParent = new Set<string>();
+  for (const edge of tree.edges) {
+    children.set(edge.from, [...(children.get(edge.from) ?? []), edge.to]);
+    hasParent.add(edge.to);
+  }
+  const positions = new Map<string, { x: number; y: number }>();
+  let nextLeaf = 0;
+  const place = (id: string, depth: number): number => {
+    const kids = children.get(id) ?? [];
+    const y = kids.length === 0 ? nextLeaf++ * ROW : kids.map((k) => place(k, depth + 1)).reduce((a, b) => a + b, 0) / kids.length;
+    positions.set(id, { x: depth * COLUMN, y });
+    return y;
+  };
+  for (const node of tree.nodes) if (!hasParent.has(node.id)) place(node.id, 0);
+  return positions;
+}
+
+function edgeStyle(edge: Tree['edges'][number]) {
+  if (edge.actual) return { stroke: ACTUAL_COLOUR, strokeWidth: edge.equilibrium ? 4 : 3 };
+  if (edge.equilibrium) return { stroke: EQUILIBRIUM_COLOUR, strokeWidth: 2, strokeDasharray: '7 5' };
+  return { stroke: COUNTERFACTUAL, strokeWidth: 1.5, strokeDasharray: '2 4' };
+}
+
+export function PathTree({ tree, teams }: { tree: Tree; teams: TeamRef[] }) {
+  const { nodes, edges } = useMemo(() => {
+    const positions = layout(tree);
+    const onActual = new Set(tree.edges.filter((e) => e.actual).flatMap((e) => [e.from, e.to]));
+    const nodes: Node<TreeNodeData>[] = tree.nodes.map((n) => ({
+      id: n.id,
+      type: 'reviewNode',
+      position: positions.get(n.id) ?? { x: 0, y: 0 },
+      data: { title: n.label, kind: n.kind, lines: n.payoffs.map((v, i) => `${teams[i]?.name ?? `Team ${i + 1}`}: ${Number(v.toFixed(2))}`), onActual: onActual.has(n.id) },
+      draggable: false,
+      connectable: false,
+    }));
+    const edges: Edge[] = tree.edges.map((e) => ({
+      id: `${e.from}>${e.to}`,
+      source: e.from,
+      target: e.to,
+      label: e.label,
+      labelStyle: { fontSize: 11, fill: '#18212b' },
+      labelBgStyle: { fill: '#f7f5f0' },
+      style: edgeStyle(e),
+      type: 'smoothstep',
+    }));
+    return { nodes, edges };
+  }, [tree, teams]);
+  const leaves = tree.nodes.filter((n) => !tree.edges.some((e) => e.from === n.id)).length;
+  const height = Math.min(560, Math.max(220, leaves * ROW + 60));
+  return (
+    <div>
+      <div className="rounded-md border border-ink-200 bg-paper-deep" style={{ height }} data-testid="path-tree">
+        <ReactFlow nodes={nodes} edges={edges} nodeTypes={NODE_TYPES} fitView fitViewOptions={{ padding: 0.12 }} nodesDraggable={false} nodesConnectable={false} proOptions={{ hideAttribution: true }} minZoom={0.2} />
+      </div>
+      <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink-700" aria-label="Legend">
+        <li className="flex items-center gap-2"><span className="inline-block h-1 w-6 rounded" style={{ background: ACTUAL_COLOUR }} /> Played</li>
+        <li className="flex items-center gap-2"><span className="inline-block w-6 border-t-2 border-dashed" style={{ borderColor: EQUILIBRIUM_COLOUR }} /> Subgame-perfect</li>
+        <li className="flex items-center gap-2"><span className="inline-block w-6 border-t-2 border-dotted" style={{ borderColor: COUNTERFACTUAL }} /> Equilibrium play from a deviation</li>
+      </ul>
+    </div>
+  );
+}
