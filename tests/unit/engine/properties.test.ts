@@ -1,0 +1,208 @@
+/**
+ * Property tests on random games (fast-check): the one-shot deviation principle holds at
+ * every node of every reported equilibrium, exact and float modes agree, the count of
+ * pure subgame-perfect equilibria matches brute force, support enumeration results meet
+ * the best-response conditions, and Lemke's sequence-form result is a Nash equilibrium.
+ */
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { actionValues, backwardInduction, childEdges, indexGame, solveFlat, supportEnumeration, type Game, type GameNode } from '../../../src/lib/engine';
+import { compiledGame } from '../../../src/lib/engine/compile';
+import { Fraction, exactField, floatField, toExact } from '../../../src/lib/engine/numbers';
+import { reducedValues } from '../../../src/lib/engine/reduced';
+import { solveFlatWith } from '../../../src/lib/engine/solvers/backward-induction';
+import { bestResponseValue } from '../../../src/lib/engine/solvers/pure-enumeration';
+import { sequenceFormEquilibrium } from '../../../src/lib/engine/solvers/sequence-form';
+import { numbersOf } from '../../../src/lib/engine/profile';
+import { plain, wholeGame } from './helpers';
+
+const TEAMS = ['A', 'B', 'C'];
+
+type Plain = { payoffs: number[] } | { team: string; actions: { label: string; next: Plain }[] } | { chance: { label: string; p: string; next: Plain }[] };
+
+function leaf(teams: number) {
+  return fc.array(fc.integer({ min: -3, max: 3 }), { minLength: teams, maxLength: teams }).map((payoffs): Plain => ({ payoffs }));
+}
+
+/** Random perfect-information trees with chance nodes; small integer payoffs make ties common. */
+function tree(teams: number, depth: number): fc.Arbitrary<Plain> {
+  if (depth === 0) return leaf(teams);
+  const child = tree(teams, depth - 1);
+  const decision = fc
+    .record({ team: fc.integer({ min: 0, max: teams - 1 }), children: fc.array(child, { minLength: 1, maxLength: 3 }) })
+    .map(({ team, children }): Plain => ({ team: TEAMS[team]!, actions: children.map((next, k) => ({ label: `a${k}`, next })) }));
+  const chance = fc.array(fc.tuple(fc.integer({ min: 1, max: 4 }), child), { minLength: 1, maxLength: 3 }).map((outcomes): Plain => {
+    const total = outcomes.reduce((s, [w]) => s + w, 0);
+    return { chance: outcomes.map(([w, next], k) => ({ label: `c${k}`, p: `${w}/${total}`, next })) };
+  });
+  return fc.oneof({ weight: 1, arbitrary: leaf(teams) }, { weight: 3, arbitrary: decision }, { weight: 1, arbitrary: chance });
+}
+
+const games = fc.integer({ min: 2, max: 3 }).chain((teams) => tree(teams, 4).map((root) => plain(TEAMS.slice(0, teams), root)));
+
+function decisionNodes(game: Game): GameNode[] {
+  return indexGame(game).nodes.filter((n) => n.kind === 'decision');
+}
+
+describe('backward induction on random perfect-information trees', () => {
+  it('every listed equilibrium passes the one-shot deviation test at every decision node', () => {
+    fc.assert(
+      fc.property(games, (game) => {
+        const result = backwardInduction(game, { exact: true, maxListed: 6 });
+        for (const eq of result.equilibria) {
+          for (const node of decisionNodes(game)) {
+            const { actions, equilibriumAction } = actionValues(game, eq, node.id);
+            const m = game.teams.findIndex((t) => t.id === (node as { team: string }).team);
+            const chosen = toExact(actions.find((a) => a.label === equilibriumAction)!.valuesExact![m]!);
+            for (const a of actions) expect(toExact(a.valuesExact![m]!).compare(chosen)).toBeLessThanOrEqual(0);
+          }
+        }
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it('exact and float modes agree', () => {
+    fc.assert(
+      fc.property(games, (game) => {
+        const exact = backwardInduction(game, { exact: true, maxListed: 3 });
+        const float = backwardInduction(game, { maxListed: 3 });
+        expect(float.count).toBe(exact.count);
+        expect(float.equilibria.map((e) => e.choices)).toEqual(exact.equilibria.map((e) => e.choices));
+        float.equilibria[0]!.payoffs.forEach((v, t) => expect(v).toBeCloseTo(exact.equilibria[0]!.payoffs[t]!, 9));
+        const flat = compiledGame(game);
+        const kernel = solveFlat(flat);
+        const generic = solveFlatWith(flat, exactField, numbersOf(flat, exactField));
+        kernel.value.forEach((v, k) => expect(v).toBeCloseTo(generic.value[k]!.valueOf(), 9));
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it('counts exactly the pure strategy profiles that are subgame perfect (brute force on small trees)', () => {
+    fc.assert(
+      fc.property(games, (game) => {
+        const decisions = decisionNodes(game) as Extract<GameNode, { kind: 'decision' }>[];
+        const profiles = decisions.reduce((n, d) => n * d.actions.length, 1);
+        fc.pre(profiles <= 2048);
+        const teamIndex = new Map(game.teams.map((t, i) => [t.id, i]));
+        let count = 0;
+        const picks = decisions.map(() => 0);
+        const choice = new Map<GameNode, number>();
+        for (;;) {
+          decisions.forEach((d, k) => choice.set(d, picks[k]!));
+          const values = new Map<GameNode, Fraction[]>();
+          const valueOf = (node: GameNode): Fraction[] => {
+            const known = values.get(node);
+            if (known) return known;
+            let v: Fraction[];
+            if (node.kind === 'terminal') v = game.teams.map((t) => toExact(node.payoffs![t.id]!));
+            else if (node.kind === 'chance') {
+              v = game.teams.map(() => new Fraction(0));
+              for (const o of node.outcomes) valueOf(o.next).forEach((x, t) => (v[t] = v[t]!.add(x.mul(toExact(o.p)))));
+            } else v = valueOf(node.actions[choice.get(node)!]!.next);
+            values.set(node, v);
+            return v;
+          };
+          const perfect = decisions.every((d) => {
+            const m = teamIndex.get(d.team)!;
+            const mine = valueOf(d)[m]!;
+            return childEdges(d).every((e) => valueOf(e.next)[m]!.compare(mine) <= 0);
+          });
+          if (perfect) count++;
+          let k = picks.length - 1;
+          while (k >= 0 && picks[k]! + 1 >= decisions[k]!.actions.length) picks[k--] = 0;
+          if (k < 0) break;
+          picks[k]!++;
+        }
+        expect(backwardInduction(game, { exact: true }).count).toBe(count);
+      }),
+      { numRuns: 150 },
+    );
+  });
+});
+
+const matrix = (m: number, n: number, range: number) =>
+  fc.array(fc.array(fc.integer({ min: -range, max: range }), { minLength: n, maxLength: n }), { minLength: m, maxLength: m });
+
+const bimatrices = (range: number) =>
+  fc.tuple(fc.integer({ min: 1, max: 4 }), fc.integer({ min: 1, max: 4 })).chain(([m, n]) => fc.tuple(matrix(m, n, range), matrix(m, n, range)));
+
+describe('support enumeration on random bimatrix stages', () => {
+  it('every equilibrium meets the best-response conditions exactly', () => {
+    fc.assert(
+      fc.property(bimatrices(3), ([A, B]) => {
+        const result = supportEnumeration({ rowLabels: A.map((_, i) => `${i}`), colLabels: A[0]!.map((_, j) => `${j}`), rowPayoff: A, colPayoff: B });
+        expect(result.equilibria.length).toBeGreaterThan(0);
+        for (const e of result.equilibria) {
+          const x = e.rowExact!.map(toExact);
+          const y = e.colExact!.map(toExact);
+          const sum = (v: Fraction[]) => v.reduce((s, p) => s.add(p), new Fraction(0));
+          expect(sum(x).equals(1) && sum(y).equals(1)).toBe(true);
+          expect([...x, ...y].every((p) => p.compare(0) >= 0)).toBe(true);
+          const rowValues = A.map((row) => row.reduce((s, a, j) => s.add(y[j]!.mul(a)), new Fraction(0)));
+          const colValues = A[0]!.map((_, j) => B.reduce((s, row, i) => s.add(x[i]!.mul(row[j]!)), new Fraction(0)));
+          const best = (v: Fraction[]) => v.reduce((m, p) => (p.compare(m) > 0 ? p : m));
+          x.forEach((p, i) => p.compare(0) > 0 && expect(rowValues[i]!.equals(best(rowValues))).toBe(true));
+          y.forEach((p, j) => p.compare(0) > 0 && expect(colValues[j]!.equals(best(colValues))).toBe(true));
+          expect(e.payoffsExact).toEqual([best(rowValues).toFraction(), best(colValues).toFraction()]);
+        }
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it('finds an odd number of equilibria in nondegenerate games (Wilson, SIAM J. Applied Math. 21, 1971)', () => {
+    fc.assert(
+      fc.property(bimatrices(1000), ([A, B]) => {
+        const result = supportEnumeration({ rowLabels: A.map((_, i) => `${i}`), colLabels: A[0]!.map((_, j) => `${j}`), rowPayoff: A, colPayoff: B });
+        fc.pre(!result.degenerate);
+        expect(result.equilibria.length % 2).toBe(1);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
+
+/** Two-team games where the second mover cannot see the first move (and chance may intervene). */
+const hiddenMoveGames = fc
+  .record({
+    first: fc.integer({ min: 2, max: 3 }),
+    second: fc.integer({ min: 2, max: 3 }),
+    chanceAfter: fc.array(fc.boolean(), { minLength: 3, maxLength: 3 }),
+    payoffs: fc.array(fc.integer({ min: -5, max: 5 }), { minLength: 36, maxLength: 36 }),
+  })
+  .map(({ first, second, chanceAfter, payoffs }) => {
+    let k = 0;
+    const pay = () => ({ payoffs: [payoffs[k++ % 36]!, payoffs[k++ % 36]!] });
+    const responder = () => ({ team: 'B', infoset: 'hidden', actions: Array.from({ length: second }, (_, j) => ({ label: `b${j}`, next: pay() })) });
+    return plain(['A', 'B'], {
+      team: 'A',
+      actions: Array.from({ length: first }, (_, i) => ({
+        label: `a${i}`,
+        next: chanceAfter[i]
+          ? { chance: [{ label: 'seen', p: '1/3', next: pay() }, { label: 'unseen', p: '2/3', next: responder() }] }
+          : responder(),
+      })),
+    });
+  });
+
+describe("Lemke's algorithm on the sequence form", () => {
+  it('returns a Nash equilibrium of random two-team games with imperfect information', () => {
+    fc.assert(
+      fc.property(hiddenMoveGames, (game) => {
+        for (const field of [exactField, floatField] as const) {
+          const reduced = wholeGame(game, field as typeof exactField);
+          const solution = sequenceFormEquilibrium(field as typeof exactField, reduced);
+          const value = reducedValues(field as typeof exactField, reduced, solution.profile)[0]!;
+          for (const team of [0, 1]) {
+            const best = bestResponseValue(field as typeof exactField, reduced, solution.profile, team);
+            if (field.exact) expect(best.compare(value[team]!)).toBeLessThanOrEqual(0);
+            else expect(Number(best) - Number(value[team])).toBeLessThan(1e-7);
+          }
+        }
+      }),
+      { numRuns: 150 },
+    );
+  });
+});
