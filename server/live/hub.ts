@@ -19,6 +19,7 @@ import { IntentError, type EventRow } from '../../src/lib/exercise/state';
 import { viewerFor } from '../../src/lib/exercise/service';
 import { SECTIONS, type EventSummary, type PresenceView, type SectionName, type Snapshot } from '../../src/lib/exercise/view';
 import { shared } from '../../src/lib/runtime';
+import { provideAnalysis } from './analysis';
 
 /** A client this far behind gets a whole snapshot instead of the changed sections. */
 const RESUME_LIMIT = 500;
@@ -41,6 +42,7 @@ export class ExerciseHub implements Publisher {
 
   /** Arm the deadlines of every exercise whose clock runs (after a restart, too). */
   start(): void {
+    provideAnalysis((versionId) => this.analysisReady(versionId));
     const running = db().select({ id: schema.exercise.id, clock: schema.exercise.clock }).from(schema.exercise).where(eq(schema.exercise.state, 'live')).all();
     for (const row of running) this.arm(row.id, row.clock);
     this.heartbeat ??= setInterval(() => this.beat(), HEARTBEAT_MS);
@@ -87,6 +89,19 @@ export class ExerciseHub implements Publisher {
       if (!patches.has(key)) patches.set(key, sections(source, c.viewer, change.sections.filter((n) => n !== 'me')));
       const patch = change.sections.includes('me') ? { ...patches.get(key), ...sections(source, c.viewer, ['me']) } : patches.get(key)!;
       this.send(c, { v: 1, type: 'update', seq: committed.seq, serverNow: Date.now(), event, patch });
+    }
+  }
+
+  /** A version's analysis is in: send it to every screen of an exercise on that version that may read it. */
+  analysisReady(versionId: string): void {
+    for (const [exerciseId, room] of this.rooms) {
+      const source = new Source(exerciseId);
+      if (source.exercise.scenarioVersionId !== versionId) continue;
+      for (const c of room) {
+        if (!c.viewer) continue;
+        const { analysis } = sections(source, c.viewer, ['analysis']);
+        if (analysis) this.send(c, { v: 1, type: 'analysis', analysis });
+      }
     }
   }
 

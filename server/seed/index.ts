@@ -5,9 +5,11 @@
  * live exercise ready to play. All people, states and places are invented.
  */
 import { seedAccounts } from './accounts';
+import { seedExercises } from './exercises';
 import { seedScenario } from './scenario';
 
 export async function seedDemo(): Promise<void> {
   const people = await seedAccounts();
-  seedScenario(people);
+  const scenario = seedScenario(people);
+  await seedExercises(people, scenario);
 }

@@ -1,58 +1,62 @@
 /**
  * The equilibrium recommendation and the logit QRE forecast at the node play
  * stands at. Both are solved once per frozen scenario version (and lambda) over
- * the whole tree and kept in memory; a version too large to solve during play
- * says so and points to Review, so live play never waits on a long solve.
+ * the whole tree, in the solver worker pool when the server registered a runner
+ * (so live play never waits on a solve), and kept in memory. Until a solve is
+ * done the section says "computing"; the hub sends the result when it is in.
  */
 import { childEdges, type Game, type GameNode } from '../engine/model';
 import { toFloat } from '../engine/numbers';
 import { actionValues, type Equilibrium } from '../engine/profile';
 import { payoffScorer } from '../engine/scoring';
 import { logitQre, type QreResult } from '../engine/solvers/qre';
-import { solveSubgamePerfect } from '../engine/solvers/subgame-perfect';
-import { indexGame } from '../engine/tree';
-import { shared } from '../runtime';
+import { solveSubgamePerfect, type SubgamePerfectResult } from '../engine/solvers/subgame-perfect';
+import { lookup, shared } from '../runtime';
 import { isMoving, nodeAt, type Stage } from './play';
 import type { ScenarioInfo } from './scenario-info';
 import { ANALYSIS_CAUTION, type AnalysisView, type EquilibriumAdvice, type ForecastView } from './view';
 
-/** Trees above this size are analysed in Review (the worker pool), not during play. */
-export const LIVE_ANALYSIS_MAX_NODES = 20_000;
+export type Solved = { equilibrium: Equilibrium | null; equilibriumNote: string | null; qre: QreResult | null };
+type Entry = { status: 'computing' } | { status: 'failed'; message: string } | ({ status: 'ready' } & Solved);
 
-type Solved = { equilibrium: Equilibrium | null; equilibriumNote: string | null; qre: QreResult | null };
+/** Runs both solves off the main thread; registered by the server (server/live/analysis.ts). */
+export type AnalysisRunner = (game: Game, lambda: number) => Promise<{ equilibria: SubgamePerfectResult; qre: QreResult | null }>;
+export const ANALYSIS_RUNNER = 'exercise.analysis-runner';
+/** Told when a version's analysis is in, so the hub can send it to the screens showing it. */
+export const ANALYSIS_LISTENER = 'exercise.analysis-listener';
 
-const cache = () => shared('exercise.analysis-cache', () => new Map<string, Solved | { failed: string }>());
+const cache = () => shared('exercise.analysis-cache', () => new Map<string, Entry>());
 
-function solve(scenario: ScenarioInfo, lambda: number): Solved | { failed: string } {
+function entryFor(scenario: ScenarioInfo, lambda: number): Entry {
   const key = `${scenario.versionId}:${lambda}`;
   const known = cache().get(key);
   if (known) return known;
-  let solved: Solved | { failed: string };
-  if (indexGame(scenario.game).nodes.length > LIVE_ANALYSIS_MAX_NODES) {
-    solved = { failed: `This tree has more than ${LIVE_ANALYSIS_MAX_NODES.toLocaleString('en-GB')} nodes; see Review for its analysis.` };
-  } else {
-    solved = solveBoth(scenario.game, lambda);
+  const runner = lookup<AnalysisRunner>(ANALYSIS_RUNNER);
+  if (!runner) {
+    const solved = readSolved(solveSubgamePerfect(scenario.game), safeQre(scenario.game, lambda));
+    cache().set(key, { status: 'ready', ...solved });
+    return cache().get(key)!;
   }
-  cache().set(key, solved);
-  return solved;
+  cache().set(key, { status: 'computing' });
+  runner(scenario.game, lambda)
+    .then(({ equilibria, qre }) => cache().set(key, { status: 'ready', ...readSolved(equilibria, qre) }))
+    .catch((error: unknown) => cache().set(key, { status: 'failed', message: `The analysis could not be computed: ${error instanceof Error ? error.message : String(error)}` }))
+    .finally(() => lookup<(versionId: string) => void>(ANALYSIS_LISTENER)?.(scenario.versionId));
+  return cache().get(key)!;
 }
 
-function solveBoth(game: Game, lambda: number): Solved {
-  let equilibrium: Equilibrium | null = null;
-  let equilibriumNote: string | null = null;
+function safeQre(game: Game, lambda: number): QreResult | null {
   try {
-    const result = solveSubgamePerfect(game);
-    equilibrium = result.equilibria[0] ?? null;
-    if (result.count > 1) equilibriumNote = `One of ${result.countExact ? '' : 'at least '}${result.count} subgame-perfect equilibria (ties or mixed play); others may differ.`;
-  } catch (error) {
-    equilibriumNote = `No equilibrium could be computed: ${error instanceof Error ? error.message : String(error)}`;
-  }
-  let qre: QreResult | null = null;
-  try {
-    qre = logitQre(game, { lambda });
+    return logitQre(game, { lambda });
   } catch {
-    qre = null;
+    return null;
   }
+}
+
+function readSolved(result: SubgamePerfectResult, qre: QreResult | null): Solved {
+  const equilibrium = result.equilibria[0] ?? null;
+  const equilibriumNote =
+    result.count > 1 ? `One of ${result.countExact ? '' : 'at least '}${result.count.toLocaleString('en-GB')} subgame-perfect equilibria (ties or mixed play); others may differ.` : null;
   return { equilibrium, equilibriumNote, qre };
 }
 
@@ -104,12 +108,13 @@ function forecast(stage: Extract<Stage, { movers: unknown }>, qre: QreResult, la
 export function analysisAt(scenario: ScenarioInfo, stage: Stage, lambda: number): AnalysisView {
   const base = { nodeId: stage.nodeId, caution: ANALYSIS_CAUTION };
   if (!isMoving(stage)) return { ...base, status: 'ready', equilibrium: null, forecast: null };
-  const solved = solve(scenario, lambda);
-  if ('failed' in solved) return { ...base, status: 'unavailable', message: solved.failed };
+  const entry = entryFor(scenario, lambda);
+  if (entry.status === 'computing') return { ...base, status: 'computing', message: 'Solving the scenario in the background; the result appears here in a moment.' };
+  if (entry.status === 'failed') return { ...base, status: 'unavailable', message: entry.message };
   return {
     ...base,
     status: 'ready',
-    equilibrium: solved.equilibrium ? advice(scenario.game, stage, solved.equilibrium, solved.equilibriumNote) : null,
-    forecast: solved.qre ? forecast(stage, solved.qre, lambda) : null,
+    equilibrium: entry.equilibrium ? advice(scenario.game, stage, entry.equilibrium, entry.equilibriumNote) : null,
+    forecast: entry.qre ? forecast(stage, entry.qre, lambda) : null,
   };
 }

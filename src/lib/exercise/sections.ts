@@ -146,7 +146,7 @@ function readable(viewer: Viewer, attachments: AttachmentInfo[]): AttachmentView
 function teamsView(source: Source): TeamView[] {
   return source.scenario.teams.map((team) => {
     const players = source.members.filter((m) => m.m.role === 'player' && m.m.teamId === team.id);
-    return { id: team.id, name: team.name, lead: players.find((p) => p.m.isLead)?.name ?? null, members: players.map((p) => p.name) };
+    return { id: team.id, name: team.name, colour: team.colour, lead: players.find((p) => p.m.isLead)?.name ?? null, members: players.map((p) => p.name) };
   });
 }
 

@@ -14,7 +14,8 @@ import { sendMail } from '../mail';
 import { exerciseSeatMail } from '../mail-templates';
 import { EXERCISE_ROLES, type ExerciseRole } from '../roles';
 import type { SessionUser } from '../auth';
-import { freezeVersion, scenarioContext } from '../studio/library';
+import { freezeVersion, listScenarios, scenarioContext, scenarioDetail } from '../studio/library';
+import { allowed } from '../access';
 import { freshClock } from './clock';
 import { commitChange, commitIntent, type Actor, type Committed } from './commit';
 import { newChanceSeed } from './draws';
@@ -36,7 +37,12 @@ export const createExerciseInput = z.object({
 });
 
 /** Create an exercise in set-up (draft), its creator seated as facilitator; the version is frozen for good. */
-export function createExercise(actor: SessionUser, input: z.infer<typeof createExerciseInput>, now = Date.now()): { id: string } {
+export function createExercise(
+  actor: SessionUser,
+  input: z.infer<typeof createExerciseInput>,
+  now = Date.now(),
+  options: { chanceSeed?: string } = {},
+): { id: string } {
   const version = db().select().from(schema.scenarioVersion).where(eq(schema.scenarioVersion.id, input.scenarioVersionId)).get();
   if (!version) throw new HttpError(404, 'There is no such scenario version', [{ field: 'scenarioVersionId', reason: 'unknown version' }]);
   const scenario = db().select().from(schema.scenario).where(eq(schema.scenario.id, version.scenarioId)).get()!;
@@ -59,7 +65,7 @@ export function createExercise(actor: SessionUser, input: z.infer<typeof createE
         nodeId: game.root.id,
         turn: 1,
         seq: 1,
-        chanceSeed: newChanceSeed(),
+        chanceSeed: options.chanceSeed ?? newChanceSeed(),
         clock: isMoving(rootStage) ? freshClock(settings.turnSeconds, false, now) : null,
       })
       .run();
@@ -115,6 +121,20 @@ export function exercisesFor(user: SessionUser): ExerciseListEntry[] {
     .orderBy(desc(schema.exercise.createdAt))
     .all()
     .map((row) => ({ ...row, participants: Number(row.participants), createdAt: row.createdAt.toISOString() }));
+}
+
+/** The scenario versions this person may start an exercise on, newest first. */
+export function creatableVersions(user: SessionUser): { id: string; label: string; scenarioTitle: string; frozen: boolean }[] {
+  return listScenarios(user).flatMap((entry) => {
+    const scenario = db().select().from(schema.scenario).where(eq(schema.scenario.id, entry.id)).get();
+    if (!scenario || !allowed(user, 'exercise.create', scenarioContext(user, scenario))) return [];
+    return scenarioDetail(user, entry.id).versions.map((v) => ({
+      id: v.id,
+      scenarioTitle: entry.title,
+      label: `version ${v.number} (${v.status === 'frozen' ? 'frozen' : 'draft, frozen on use'})`,
+      frozen: v.status === 'frozen',
+    }));
+  });
 }
 
 // ---------------------------------------------------------------------------
@@ -177,7 +197,13 @@ const invitesRoster = (user: SessionUser) => (seat: Seat | null, exercise: Exerc
  * Seat a person: an existing account goes straight onto the roster (and is told
  * by e-mail); an unknown address gets an invitation whose acceptance seats it.
  */
-export async function seatPerson(exerciseId: string, user: SessionUser, input: SeatInput, now = Date.now()): Promise<{ seated: 'member' | 'invited'; seq: number; notified: boolean }> {
+export async function seatPerson(
+  exerciseId: string,
+  user: SessionUser,
+  input: SeatInput,
+  now = Date.now(),
+  options: { notify?: boolean } = {},
+): Promise<{ seated: 'member' | 'invited'; seq: number; notified: boolean }> {
   const source = new Source(exerciseId);
   invitesRoster(user)(requireViewer(exerciseId, user).seat, source.exercise);
   const team = source.scenario.teams.find((t) => t.id === input.teamId);
@@ -203,6 +229,7 @@ export async function seatPerson(exerciseId: string, user: SessionUser, input: S
     invitesRoster(user),
   ))!;
   publish(committed);
+  if (options.notify === false) return { seated: 'member', seq: committed.seq, notified: false };
   const link = `${loadConfig().publicUrl}/exercises/${exerciseId}`;
   const notified = await sendMail({ to: email, ...exerciseSeatMail(user.name, source.exercise.title, label.replace(/ of the exercise.*$/, ''), link) })
     .then(() => true)

@@ -8,7 +8,7 @@ import type { PlayedMove, ObserverNote } from './record';
 import type { RichText } from '../scenario';
 import type { DeadlineRule, Settings } from './settings';
 
-export type TeamView = { id: string; name: string; lead: string | null; members: string[] };
+export type TeamView = { id: string; name: string; colour: string | null; lead: string | null; members: string[] };
 
 export type SeatView = {
   userId: string;
