@@ -73,16 +73,16 @@ class Writer {
   }
 
   /** One line of text placed exactly (baseline at y), for charts and page furniture. */
-  label(text: string, x: number, y: number, options: { size: number; style?: FontStyle; color: string; anchor?: 'start' | 'middle' | 'end'; spacing?: number }): void {
+  label(text: string, x: number, y: number, options: { size: number; style?: FontStyle; color: string; anchor?: 'start' | 'middle' | 'end' }): void {
     const parts = splitBySubset(text);
     const style = options.style ?? 'regular';
     const widthOf = (part: (typeof parts)[number]) =>
-      this.font(style, part.subset).fontSize(options.size).widthOfString(part.text, { characterSpacing: options.spacing ?? 0 });
+      this.font(style, part.subset).fontSize(options.size).widthOfString(part.text);
     const total = parts.reduce((sum, p) => sum + widthOf(p), 0);
     let at = options.anchor === 'middle' ? x - total / 2 : options.anchor === 'end' ? x - total : x;
     for (const part of parts) {
       this.font(style, part.subset).fontSize(options.size).fillColor(options.color);
-      this.doc.text(part.text, at, y, { lineBreak: false, baseline: 'alphabetic', characterSpacing: options.spacing ?? 0 });
+      this.doc.text(part.text, at, y, { lineBreak: false, baseline: 'alphabetic' });
       at += widthOf(part);
     }
   }
@@ -319,7 +319,8 @@ function pageFurniture(w: Writer, report: IssuedReport): void {
     w.doc.page.margins.bottom = 0; // writing below the bottom margin must not start a new page
     for (const y of [0, height - 16]) {
       w.doc.rect(0, y, width, 16).fill(BAND);
-      w.label(EXERCISE_MARKING, width / 2, y + 11, { size: 7.5, style: 'semibold', color: '#ffffff', anchor: 'middle', spacing: 1.6 });
+      // No letter spacing: text extraction and screen readers must read the word EXERCISE.
+      w.label(EXERCISE_MARKING, width / 2, y + 11, { size: 8, style: 'semibold', color: '#ffffff', anchor: 'middle' });
     }
     w.label(`${report.title} · version ${report.number}`, PAGE.margin, height - 30, { size: 7.5, color: MUTED });
     w.label(`Page ${i - range.start + 1} of ${range.count}`, width - PAGE.margin, height - 30, { size: 7.5, color: MUTED, anchor: 'end' });
