@@ -71,7 +71,7 @@ export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarl
   const rng = mulberry32(options.seed);
   const share = new Float64Array(flat.size);
   const reach = new Float64Array(flat.size);
-  const every = Math.max(1, Math.floor(options.samples / 100));
+  const every = Math.max(1, Math.min(50, Math.floor(options.samples / 100)));
   const solveSample = isPerfectInformation(flat) ? perfectSampler(flat, targets) : rollUpSampler(flat, targets);
   for (let s = 0; s < options.samples; s++) {
     solveSample(ranges.map((r) => sampleDistribution(r.distribution, rng)), reach);
