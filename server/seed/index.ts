@@ -6,10 +6,12 @@
  */
 import { seedAccounts } from './accounts';
 import { seedExercises } from './exercises';
+import { seedReports } from './reports';
 import { seedScenario } from './scenario';
 
 export async function seedDemo(): Promise<void> {
   const people = await seedAccounts();
   const scenario = seedScenario(people);
-  await seedExercises(people, scenario);
+  const exercises = await seedExercises(people, scenario);
+  await seedReports(people, exercises);
 }

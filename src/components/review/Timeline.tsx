@@ -34,6 +34,21 @@ function Entry({ entry }: { entry: TimelineEntry }) {
       </li>
     );
   }
+  if (entry.kind === 'ending') {
+    const e = entry.ending;
+    return (
+      <li className="relative pl-6" data-kind="ending">
+        <span aria-hidden="true" className="absolute top-1.5 left-0 h-3 w-3 bg-ink-900" />
+        <div className="text-sm">
+          <span className="font-semibold">Facilitator ended play</span> at <span className="font-medium">“{e.outcome}”</span>
+          {e.mover && <span> on {e.mover}’s proposal{e.proposal ? ` “${e.proposal}”` : ''}</span>}
+          <span className="ml-2 text-xs text-ink-500">{clock(entry.at)}</span>
+        </div>
+        {e.reason && <p className="mt-0.5 text-sm text-haze-700">{e.reason}</p>}
+        <p className="mt-0.5 text-sm text-ink-600">Equilibrium play from there would have ended at “{e.equilibriumFromThere.outcome ?? e.equilibriumFromThere.nodeId}”.</p>
+      </li>
+    );
+  }
   return (
     <li className="relative pl-6" data-kind="note">
       <span aria-hidden="true" className="absolute top-1.5 left-0 h-3 w-3 rounded-sm bg-moss-600" />

@@ -21,11 +21,11 @@ export function EscalationChart({ spec, height = 280 }: { spec: Pick<EscalationS
       <ResponsiveContainer width="100%" height={height}>
         <LineChart data={spec.points} margin={{ top: 8, right: 16, bottom: 4, left: 8 }}>
           <CartesianGrid stroke={GRID} vertical={false} />
-          <XAxis dataKey="step" tick={AXIS} tickFormatter={(step: number) => String(spec.points[step - 1]?.turn ?? step)} label={{ value: 'Turn', position: 'insideBottom', offset: -2, fontSize: 12 }} height={36} />
+          <XAxis dataKey="turn" tick={AXIS} label={{ value: 'Turn', position: 'insideBottom', offset: -2, fontSize: 12 }} height={36} />
           <YAxis type="number" domain={domain} ticks={ticks} tick={AXIS} width={130} tickFormatter={(v: number) => short(nameAt.get(v) ?? String(v))} />
           <Tooltip
             formatter={(value, name) => [nameAt.get(Number(value)) ?? String(value), name === 'actual' ? 'Actual play' : 'Subgame-perfect path']}
-            labelFormatter={(step) => `Turn ${spec.points[Number(step) - 1]?.turn ?? step}`}
+            labelFormatter={(turn) => `Turn ${turn}`}
           />
           <Legend formatter={(name) => (name === 'actual' ? 'Actual play' : 'Subgame-perfect path')} wrapperStyle={{ fontSize: 13 }} />
           <Line type="linear" dataKey="equilibrium" stroke={EQUILIBRIUM_COLOUR} strokeWidth={2} strokeDasharray="6 4" dot={{ r: 3, fill: '#fff' }} isAnimationActive={false} />
@@ -37,21 +37,21 @@ export function EscalationChart({ spec, height = 280 }: { spec: Pick<EscalationS
 }
 
 export function RegretChart({ spec, height = 260 }: { spec: Pick<RegretSpec, 'teams' | 'points'>; height?: number }) {
-  const steps = spec.points.length ? Math.max(...spec.points.map((p) => p.step)) : 0;
-  const rows = Array.from({ length: steps }, (_, k) => {
-    const here = spec.points.filter((p) => p.step === k + 1);
-    return { step: k + 1, turn: here[0]?.turn ?? k + 1, move: here.map((p) => p.label).join(', '), ...Object.fromEntries(here.map((p) => [p.teamId, p.regret])) };
+  const turns = spec.points.length ? Math.max(...spec.points.map((p) => p.turn)) : 0;
+  const rows = Array.from({ length: turns }, (_, k) => {
+    const here = spec.points.filter((p) => p.turn === k + 1);
+    return { turn: k + 1, move: here.map((p) => p.label).join(', '), ...Object.fromEntries(here.map((p) => [p.teamId, p.regret])) };
   });
   return (
     <div role="img" aria-label="Regret by turn: the continuation value each move gave up" data-chart="regret">
       <ResponsiveContainer width="100%" height={height}>
         <BarChart data={rows} margin={{ top: 8, right: 16, bottom: 4, left: 8 }}>
           <CartesianGrid stroke={GRID} vertical={false} />
-          <XAxis dataKey="step" tick={AXIS} tickFormatter={(step: number) => String(rows[step - 1]?.turn ?? step)} label={{ value: 'Turn', position: 'insideBottom', offset: -2, fontSize: 12 }} height={36} />
+          <XAxis dataKey="turn" tick={AXIS} label={{ value: 'Turn', position: 'insideBottom', offset: -2, fontSize: 12 }} height={36} />
           <YAxis tick={AXIS} width={56} label={{ value: 'Regret', angle: -90, position: 'insideLeft', fontSize: 12 }} />
           <Tooltip
             formatter={(value, name) => [Number(value).toFixed(2), spec.teams.find((t) => t.id === name)?.name ?? String(name)]}
-            labelFormatter={(step) => `Turn ${rows[Number(step) - 1]?.turn ?? step}: ${rows[Number(step) - 1]?.move ?? ''}`}
+            labelFormatter={(turn) => `Turn ${turn}: ${rows[Number(turn) - 1]?.move ?? ''}`}
           />
           <Legend formatter={(id) => spec.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
           {spec.teams.map((team, i) => (

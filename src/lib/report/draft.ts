@@ -41,7 +41,7 @@ function summary(ctx: DraftContext): JSONContent[] {
   const played = review.actual.terminal ? `ended at “${ending(review.actual)}”` : 'is still under way';
   const sentences = [
     `The exercise ${review.title} ran on the scenario ${ctx.scenarioTitle} from ${when(ctx.startedAt)} to ${when(ctx.endedAt)}, with ${review.teams.map((t) => t.name).join(', ')}.`,
-    `Play took ${review.moves.length} moves and ${played}. Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”${review.equilibrium.count > 1 ? ` (one of ${review.equilibrium.count} subgame-perfect equilibria)` : ''}.`,
+    `Play took ${review.moves.length} moves and ${played}. Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”${review.equilibrium.count > 1 ? ` (one of ${review.equilibrium.count.toLocaleString('en-GB')} subgame-perfect equilibria)` : ''}.`,
     deviations.length === 0
       ? 'Every move followed the equilibrium.'
       : `Teams left the equilibrium ${deviations.length} time${deviations.length === 1 ? '' : 's'}.` +
@@ -65,6 +65,10 @@ function moveLine(m: MoveReview): JSONContent[] {
 function timeline(review: Review): JSONContent[] {
   const items = review.timeline.flatMap((entry): JSONContent[][] => {
     if (entry.kind === 'move') return [moveLine(entry.move)];
+    if (entry.kind === 'ending') {
+      const e = entry.ending;
+      return [[text(`Turn ${e.turn} · Facilitator: `, 'bold'), text(`ended play at “${e.outcome}”${e.mover ? ` on ${e.mover}’s proposal` : ''}${e.reason ? `: ${e.reason}` : ''}`)]];
+    }
     if (entry.kind === 'inject') {
       const to = entry.inject.to === 'all' ? 'all teams' : entry.inject.to.map((id) => review.teams.find((t) => t.id === id)?.name ?? id).join(', ');
       return [[text(`${entry.turn ? `Turn ${entry.turn} · ` : ''}Inject to ${to}: `, 'bold'), text(entry.inject.title)]];

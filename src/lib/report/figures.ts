@@ -16,8 +16,7 @@ export const escalationSpec = z.object({
   points: z
     .array(
       z.object({
-        step: z.number().int().min(1),
-        turn: z.number().int().nullable(),
+        turn: z.number().int().min(1),
         actual: finite.nullable(),
         equilibrium: finite.nullable(),
       }),
@@ -29,7 +28,7 @@ export const regretSpec = z.object({
   kind: z.literal('regret'),
   title: z.string().max(300),
   teams: z.array(z.object({ id: z.string().max(200), name: z.string().max(200) })).max(6),
-  points: z.array(z.object({ step: z.number().int().min(1), turn: z.number().int(), teamId: z.string().max(200), label: z.string().max(300), regret: finite })).max(2000),
+  points: z.array(z.object({ turn: z.number().int().min(1), teamId: z.string().max(200), label: z.string().max(300), regret: finite })).max(2000),
 });
 
 export const figureSpec = z.discriminatedUnion('kind', [escalationSpec, regretSpec]);
@@ -75,7 +74,7 @@ export function escalationFigure(review: Review): EscalationSpec {
     kind: 'escalation',
     title: 'Escalation by turn: actual play and the subgame-perfect path',
     rungs: review.rungs.map((r) => ({ name: r.name, intensity: r.intensity })),
-    points: review.escalation.map((p) => ({ step: p.step, turn: p.turn, actual: p.actual, equilibrium: p.equilibrium })),
+    points: review.escalation.map((p) => ({ turn: p.turn, actual: p.actual, equilibrium: p.equilibrium })),
   };
 }
 
@@ -84,7 +83,7 @@ export function regretFigure(review: Review): RegretSpec {
     kind: 'regret',
     title: 'Regret by turn: continuation value given up under the authored payoffs',
     teams: review.teams,
-    points: review.regret.map((p) => ({ step: p.step, turn: p.turn, teamId: p.teamId, label: p.label, regret: fixed(p.regret, 4)! })),
+    points: review.regret.map((p) => ({ turn: p.turn, teamId: p.teamId, label: p.label, regret: fixed(p.regret, 4)! })),
   };
 }
 

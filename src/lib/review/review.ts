@@ -3,10 +3,12 @@
  * play, move by move and team by team. Pure: a game and a play record in, plain
  * data out. Everything follows from the authored payoffs.
  */
-import type { PlayedMove, PlayRecord } from '../exercise/record';
+import type { AdjudicatedEnding, PlayedMove, PlayRecord } from '../exercise/record';
 import {
   actionValues,
   choiceKey,
+  indexGame,
+  nodeById,
   payoffScorer,
   solveSubgamePerfect,
   type Equilibrium,
@@ -14,9 +16,10 @@ import {
   type GameNode,
 } from './engine';
 import { fitTeams, type Observation } from './likelihood';
-import { drawsOf, followProfile, playedLine, type Choices, type Draws, type Line } from './paths';
+import { drawsOf, followProfile, playedLine, PlayMismatch, type Choices, type Draws, type Line } from './paths';
 import type {
   Counterfactual,
+  EndingReview,
   EndPoint,
   LevelPoint,
   MoveReview,
@@ -67,22 +70,24 @@ export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOption
   }
   const equilibriumLine = followProfile(game.root, equilibrium.choices, draws);
   const deviations = counterfactualsOf(ctx, equilibrium.choices, draws, played, moves);
+  const ended = record.ending ? endingOf(ctx, record.ending, played, equilibrium.choices, draws) : null;
   return {
     exerciseId: record.exerciseId,
     title: record.title,
     state: record.state,
     teams: game.teams.map((t) => ({ id: t.id, name: t.name })),
     equilibrium: { method: solved.method, count: solved.count, countExact: solved.countExact, end: endPoint(ctx, equilibriumLine) },
-    actual: endPoint(ctx, played),
+    actual: ended?.actual ?? endPoint(ctx, played),
+    ending: ended?.review ?? null,
     moves,
     fits,
     lambdas,
     tremble,
-    escalation: escalationSeries(ctx, played, equilibriumLine, record.moves),
+    escalation: escalationSeries(ctx, played, equilibriumLine),
     regret: regretSeries(moves),
     counterfactuals: deviations.map((d) => d.counterfactual),
-    tree: pathTree(ctx, played, equilibriumLine, deviations.flatMap((d) => d.lines)),
-    timeline: timelineOf(record, moves),
+    tree: pathTree(ctx, ended?.line ?? played, equilibriumLine, [...deviations.flatMap((d) => d.lines), ...(ended ? [ended.instead] : [])]),
+    timeline: timelineOf(record, moves, ended?.review ?? null),
     rungs: ctx.rungs,
   };
 }
@@ -161,12 +166,32 @@ function reviewMove(ctx: Context, eq: Equilibrium, qre: Choices, move: PlayedMov
   };
 }
 
-function escalationSeries(ctx: Context, played: Line, equilibrium: Line, moves: PlayedMove[]): LevelPoint[] {
-  const actual = rungsAlong(ctx, played);
-  const rational = rungsAlong(ctx, equilibrium);
+/** The turn of each edge of a line: a node in an information set of several nodes moves without seeing the edge before, in the same turn. */
+function turnsAlong(ctx: Context, line: Line): number[] {
+  const infosets = indexGame(ctx.game).infosets;
+  let turn = 0;
+  return line.labels.map((_, k) => {
+    const node = line.nodes[k]!;
+    const unseen = k > 0 && node.kind === 'decision' && node.infoset !== undefined && (infosets.get(node.infoset)?.length ?? 0) > 1;
+    if (!unseen) turn++;
+    return turn;
+  });
+}
+
+/** The rung at the end of every turn of a line (index turn - 1). */
+function levelsByTurn(ctx: Context, line: Line): (RungRef | null)[] {
+  const turns = turnsAlong(ctx, line);
+  const rungs = rungsAlong(ctx, line);
+  const levels: (RungRef | null)[] = [];
+  turns.forEach((turn, k) => (levels[turn - 1] = rungs[k] ?? null));
+  return levels;
+}
+
+function escalationSeries(ctx: Context, played: Line, equilibrium: Line): LevelPoint[] {
+  const actual = levelsByTurn(ctx, played);
+  const rational = levelsByTurn(ctx, equilibrium);
   return Array.from({ length: Math.max(actual.length, rational.length) }, (_, k) => ({
-    step: k + 1,
-    turn: moves[k]?.turn ?? null,
+    turn: k + 1,
     actual: actual[k]?.intensity ?? null,
     equilibrium: rational[k]?.intensity ?? null,
     actualRung: actual[k]?.name ?? null,
@@ -231,9 +256,35 @@ function pathTree(ctx: Context, played: Line, equilibrium: Line, counterfactual:
   return { nodes: [...nodes.values()], edges: [...edges.values()] };
 }
 
-function timelineOf(record: PlayRecord, moves: MoveReview[]): TimelineEntry[] {
+/** The facilitator's ending: where it left play, the line drawn to its outcome, and where equilibrium play would have gone instead. */
+function endingOf(ctx: Context, ending: AdjudicatedEnding, played: Line, choices: Choices, draws: Draws) {
+  const here = played.nodes[played.nodes.length - 1]!;
+  if (ending.nodeId !== here.id) throw new PlayMismatch(`The adjudicated ending ${ending.moveId} was made at node "${ending.nodeId}", but play stood at "${here.id}"`);
+  const terminal = nodeById(ctx.game, ending.outcomeNodeId);
+  if (terminal?.kind !== 'terminal') throw new PlayMismatch(`The adjudicated ending ${ending.moveId} names "${ending.outcomeNodeId}", which is not an outcome of the scenario tree`);
+  const line: Line = { nodes: [...played.nodes, terminal], labels: [...played.labels, ADJUDICATED_ENDING] };
+  const instead = join(played, played.nodes.length - 1, followProfile(here, choices, draws));
+  const actual: EndPoint = { ...endPoint(ctx, played), nodeId: terminal.id, terminal: true, outcome: ending.outcome, payoffs: ctx.score(terminal) };
+  const review: EndingReview = {
+    moveId: ending.moveId,
+    turn: ending.turn,
+    mover: ending.teamId ? (ctx.teamName.get(ending.teamId) ?? ending.teamId) : null,
+    outcome: ending.outcome,
+    proposal: ending.proposal,
+    reason: ending.reason,
+    at: ending.at,
+    equilibriumFromThere: endPoint(ctx, instead),
+  };
+  return { actual, review, line, instead };
+}
+
+/** The label of the drawn edge from where play stood to the outcome the facilitator chose. */
+export const ADJUDICATED_ENDING = 'Ended by adjudication';
+
+function timelineOf(record: PlayRecord, moves: MoveReview[], ending: EndingReview | null): TimelineEntry[] {
   const entries: TimelineEntry[] = [
     ...moves.map((move): TimelineEntry => ({ kind: 'move', at: move.at, turn: move.turn, move })),
+    ...(ending ? [{ kind: 'ending', at: ending.at, turn: ending.turn, ending } as TimelineEntry] : []),
     ...record.notes.map((note): TimelineEntry => ({ kind: 'note', at: note.at, turn: note.turn, note })),
     ...record.injects.map((inject): TimelineEntry => ({ kind: 'inject', at: inject.at, turn: inject.turn, inject })),
   ];

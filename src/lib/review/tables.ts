@@ -36,7 +36,6 @@ const TEAM_COLUMNS: Column<TeamFit>[] = [
 ];
 
 const LEVEL_COLUMNS: Column<LevelPoint>[] = [
-  { header: 'step', value: (p) => p.step },
   { header: 'turn', value: (p) => p.turn },
   { header: 'actual intensity', value: (p) => p.actual },
   { header: 'actual rung', value: (p) => p.actualRung },
@@ -53,12 +52,25 @@ const COUNTERFACTUAL_COLUMNS: Column<Counterfactual>[] = [
   { header: 'equilibrium after the move would end', value: (c) => c.after.outcome ?? c.after.nodeId },
 ];
 
+function timelineText(e: TimelineEntry): string {
+  switch (e.kind) {
+    case 'move':
+      return e.move.label;
+    case 'note':
+      return e.note.text;
+    case 'inject':
+      return `${e.inject.title}: ${e.inject.body}`;
+    case 'ending':
+      return `Ended at ${e.ending.outcome}${e.ending.reason ? `: ${e.ending.reason}` : ''}`;
+  }
+}
+
 const TIMELINE_COLUMNS: Column<TimelineEntry>[] = [
   { header: 'at', value: (e) => e.at },
   { header: 'turn', value: (e) => e.turn },
   { header: 'kind', value: (e) => e.kind },
   { header: 'who', value: (e) => (e.kind === 'move' ? e.move.mover : e.kind === 'note' ? e.note.authorName : 'Facilitator') },
-  { header: 'text', value: (e) => (e.kind === 'move' ? e.move.label : e.kind === 'note' ? e.note.text : `${e.inject.title}: ${e.inject.body}`) },
+  { header: 'text', value: timelineText },
   { header: 'tags', value: (e) => (e.kind === 'note' ? e.note.tags.join('; ') : null) },
 ];
 

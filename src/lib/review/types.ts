@@ -68,10 +68,14 @@ export type TeamFit = {
   };
 };
 
+/**
+ * The escalation level at the end of one turn. A turn is one stage of play: a
+ * move made without seeing the one before it (a simultaneous stage) shares that
+ * move's turn; every other move or chance draw starts a new one.
+ */
 export type LevelPoint = {
-  step: number;
-  turn: number | null;
-  /** Intensity of the rung after this step of actual play; null past its end. */
+  turn: number;
+  /** Intensity of the rung after this turn of actual play; null past its end. */
   actual: number | null;
   equilibrium: number | null;
   actualRung: string | null;
@@ -93,6 +97,20 @@ export type Counterfactual = {
   after: EndPoint;
 };
 
+/** Play ended by the facilitator at an outcome, instead of by a move of the tree. */
+export type EndingReview = {
+  moveId: string;
+  turn: number;
+  /** The team whose proposal was adjudicated, or null. */
+  mover: string | null;
+  outcome: string;
+  proposal: string | null;
+  reason: string | null;
+  at: string;
+  /** Where equilibrium play from the point where play was ended would have gone. */
+  equilibriumFromThere: EndPoint;
+};
+
 export type EdgeUse = { actual: boolean; equilibrium: boolean; counterfactual: boolean };
 
 /** The part of the tree the review draws: every node on the actual, equilibrium and counterfactual lines. */
@@ -104,7 +122,8 @@ export type PathTree = {
 export type TimelineEntry =
   | { kind: 'move'; at: string; turn: number; move: MoveReview }
   | { kind: 'note'; at: string; turn: number | null; note: ObserverNote }
-  | { kind: 'inject'; at: string; turn: number | null; inject: InjectRecord };
+  | { kind: 'inject'; at: string; turn: number | null; inject: InjectRecord }
+  | { kind: 'ending'; at: string; turn: number; ending: EndingReview };
 
 export type Review = {
   exerciseId: string;
@@ -113,6 +132,8 @@ export type Review = {
   teams: TeamRef[];
   equilibrium: { method: string; count: number; countExact: boolean; end: EndPoint };
   actual: EndPoint;
+  /** Set when the facilitator ended play at an outcome by adjudication. */
+  ending: EndingReview | null;
   moves: MoveReview[];
   fits: TeamFit[];
   /** The fitted lambda of every team (0 for a team without moves), at which move probabilities are given. */

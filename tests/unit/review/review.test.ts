@@ -83,6 +83,20 @@ describe('review of the entry game (Osborne 2004, section 5.1; Selten 1978)', ()
     expect(review.counterfactuals[0]!.after).toMatchObject({ nodeId: 'if', outcome: 'Price war' });
   });
 
+  it('reviews play the facilitator ended at an outcome, with where equilibrium play would have gone', () => {
+    const ended = reviewPlay(
+      ENTRY,
+      playRecord(ENTRY, [['c', 'In']], {
+        currentNodeId: 'o',
+        ending: { moveId: 'e1', turn: 2, nodeId: 'i', teamId: 'second', outcomeNodeId: 'o', outcome: 'Challenger stays out', proposal: 'Buy the challenger out', reason: 'Both sides accepted the offer', at: '2026-01-05T09:30:00.000Z' },
+      }),
+    );
+    expect(ended.actual).toMatchObject({ nodeId: 'o', terminal: true, outcome: 'Challenger stays out', payoffs: [1, 2] });
+    expect(ended.ending).toMatchObject({ mover: 'Incumbent', turn: 2, equilibriumFromThere: { nodeId: 'ia' } });
+    expect(ended.timeline.map((e) => e.kind)).toEqual(['move', 'ending']);
+    expect(ended.tree.edges.find((e) => e.from === 'i' && e.to === 'o')).toMatchObject({ label: 'Ended by adjudication', actual: true });
+  });
+
   it('draws the actual, equilibrium and counterfactual lines as one small tree', () => {
     const edge = (from: string, to: string) => review.tree.edges.find((e) => e.from === from && e.to === to);
     expect(edge('c', 'i')).toMatchObject({ actual: true, equilibrium: true });
@@ -98,7 +112,7 @@ describe('review of a ladder with a chance node (hand-made check, no source)', (
     const review = reviewPlay(LADDER, playRecord(LADDER, [['b', 'Raise'], ['w', 'Calm'], ['r', 'Match']]));
     // Red: Back down (-1) beats Match (-2); Blue: Raise (1/4 * 0 + 3/4 * 3 = 2.25) beats Hold (1).
     expect(review.equilibrium.end.path).toEqual(['Raise', 'Calm', 'Back down']);
-    expect(review.escalation.map((p) => [p.step, p.actual, p.equilibrium])).toEqual([
+    expect(review.escalation.map((p) => [p.turn, p.actual, p.equilibrium])).toEqual([
       [1, 2, 2],
       [2, 2, 2],
       [3, 4, 2],

@@ -27,27 +27,27 @@ const MARGIN = { left: 118, right: 14, top: 30, bottom: 34 };
 
 const clip = (text: string, max: number) => (text.length > max ? `${text.slice(0, max - 1)}…` : text);
 
-type Frame = { left: number; right: number; top: number; bottom: number; x: (step: number) => number };
+type Frame = { left: number; right: number; top: number; bottom: number; slot: number; x: (turn: number) => number };
 
-/** Points run edge to edge; bands put each step in the middle of its own slot. */
-function frame(width: number, height: number, steps: number, bands = false): Frame {
+/** Points run edge to edge; bands put each turn in the middle of its own slot. */
+function frame(width: number, height: number, turns: number, bands = false): Frame {
   const left = MARGIN.left;
   const right = width - MARGIN.right;
-  const slot = (right - left) / Math.max(steps, 1);
+  const slot = (right - left) / Math.max(turns, 1);
   const x = bands
-    ? (step: number) => left + (step - 0.5) * slot
-    : (step: number) => (steps <= 1 ? (left + right) / 2 : left + ((step - 1) / (steps - 1)) * (right - left));
-  return { left, right, top: MARGIN.top, bottom: height - MARGIN.bottom, x };
+    ? (turn: number) => left + (turn - 0.5) * slot
+    : (turn: number) => (turns <= 1 ? (left + right) / 2 : left + ((turn - 1) / (turns - 1)) * (right - left));
+  return { left, right, top: MARGIN.top, bottom: height - MARGIN.bottom, slot, x };
 }
 
-/** Step labels along the x axis: every step when few, else about ten. */
-function stepAxis(f: Frame, steps: { step: number; turn: number | null }[]): Shape[] {
-  const every = Math.max(1, Math.ceil(steps.length / 10));
+/** Turn numbers along the x axis: every turn when few, else about ten. */
+function turnAxis(f: Frame, turns: number): Shape[] {
+  const every = Math.max(1, Math.ceil(turns / 10));
   const shapes: Shape[] = [{ kind: 'line', x1: f.left, y1: f.bottom, x2: f.right, y2: f.bottom, stroke: AXIS, width: 0.8 }];
-  steps.forEach((s, k) => {
-    if (k % every !== 0 && k !== steps.length - 1) return;
-    shapes.push({ kind: 'text', x: f.x(s.step), y: f.bottom + 13, text: String(s.turn ?? s.step), size: 8, anchor: 'middle', fill: LABEL });
-  });
+  for (let turn = 1; turn <= turns; turn++) {
+    if ((turn - 1) % every !== 0 && turn !== turns) continue;
+    shapes.push({ kind: 'text', x: f.x(turn), y: f.bottom + 13, text: String(turn), size: 8, anchor: 'middle', fill: LABEL });
+  }
   shapes.push({ kind: 'text', x: (f.left + f.right) / 2, y: f.bottom + 27, text: 'Turn', size: 8, anchor: 'middle', fill: AXIS });
   return shapes;
 }
@@ -91,10 +91,10 @@ function escalation(spec: EscalationSpec, width: number, height: number): Drawin
     shapes.push({ kind: 'line', x1: f.left, y1: y(rung.intensity), x2: f.right, y2: y(rung.intensity), stroke: GRID, width: 0.6 });
     shapes.push({ kind: 'text', x: f.left - 6, y: y(rung.intensity) + 3, text: clip(rung.name, 24), size: 7.5, anchor: 'end', fill: LABEL });
   }
-  shapes.push(...stepAxis(f, spec.points));
+  shapes.push(...turnAxis(f, spec.points.length));
   const series = [
-    { values: spec.points.map((p) => [f.x(p.step), p.equilibrium === null ? null : y(p.equilibrium)] as [number, number | null]), colour: EQUILIBRIUM_COLOUR, dash: [5, 4], r: 2.4 },
-    { values: spec.points.map((p) => [f.x(p.step), p.actual === null ? null : y(p.actual)] as [number, number | null]), colour: ACTUAL_COLOUR, dash: undefined, r: 3.2 },
+    { values: spec.points.map((p) => [f.x(p.turn), p.equilibrium === null ? null : y(p.equilibrium)] as [number, number | null]), colour: EQUILIBRIUM_COLOUR, dash: [5, 4], r: 2.4 },
+    { values: spec.points.map((p) => [f.x(p.turn), p.actual === null ? null : y(p.actual)] as [number, number | null]), colour: ACTUAL_COLOUR, dash: undefined, r: 3.2 },
   ];
   for (const s of series) {
     for (const run of runs(s.values)) {
@@ -117,8 +117,8 @@ function niceTicks(low: number, high: number): number[] {
 }
 
 function regret(spec: RegretSpec, width: number, height: number): Drawing {
-  const steps = spec.points.length ? Math.max(...spec.points.map((p) => p.step)) : 1;
-  const f = frame(width, height, steps, true);
+  const turns = spec.points.length ? Math.max(...spec.points.map((p) => p.turn)) : 1;
+  const f = frame(width, height, turns, true);
   const values = spec.points.map((p) => p.regret);
   const low = Math.min(0, ...values);
   const high = Math.max(0, ...values, 1e-9);
@@ -132,15 +132,18 @@ function regret(spec: RegretSpec, width: number, height: number): Drawing {
     shapes.push({ kind: 'text', x: f.left - 6, y: y(t) + 3, text: String(t), size: 7.5, anchor: 'end', fill: LABEL });
   }
   shapes.push({ kind: 'text', x: f.left - 6, y: f.top - 8, text: 'Regret', size: 8, anchor: 'end', fill: AXIS });
-  const all = Array.from({ length: steps }, (_, k) => ({ step: k + 1, turn: spec.points.find((p) => p.step === k + 1)?.turn ?? null }));
-  shapes.push(...stepAxis(f, all));
-  const slot = (f.right - f.left) / Math.max(steps, 1);
-  const barWidth = Math.max(3, Math.min(26, slot * 0.6));
-  for (const p of spec.points) {
-    const team = Math.max(0, spec.teams.findIndex((t) => t.id === p.teamId));
-    const y0 = y(0);
-    const y1 = y(p.regret);
-    shapes.push({ kind: 'rect', x: f.x(p.step) - barWidth / 2, y: Math.min(y0, y1), w: barWidth, h: Math.max(0.8, Math.abs(y1 - y0)), fill: TEAM_COLOURS[team % TEAM_COLOURS.length]! });
+  shapes.push(...turnAxis(f, turns));
+  const teamOf = (id: string) => Math.max(0, spec.teams.findIndex((t) => t.id === id));
+  for (let turn = 1; turn <= turns; turn++) {
+    // Moves of one turn (a simultaneous stage) stand side by side in the turn's slot.
+    const here = spec.points.filter((p) => p.turn === turn).sort((a, b) => teamOf(a.teamId) - teamOf(b.teamId));
+    const barWidth = Math.max(3, Math.min(26, (f.slot * 0.7) / Math.max(here.length, 1)));
+    here.forEach((p, j) => {
+      const y0 = y(0);
+      const y1 = y(p.regret);
+      const x = f.x(turn) + (j - (here.length - 1) / 2) * (barWidth + 1) - barWidth / 2;
+      shapes.push({ kind: 'rect', x, y: Math.min(y0, y1), w: barWidth, h: Math.max(0.8, Math.abs(y1 - y0)), fill: TEAM_COLOURS[teamOf(p.teamId) % TEAM_COLOURS.length]! });
+    });
   }
   shapes.push({ kind: 'line', x1: f.left, y1: y(0), x2: f.right, y2: y(0), stroke: AXIS, width: 0.8 });
   shapes.push(...legend(spec.teams.map((t, i) => ({ label: t.name, colour: TEAM_COLOURS[i % TEAM_COLOURS.length]!, bar: true })), f.right));
