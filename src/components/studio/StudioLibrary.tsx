@@ -34,7 +34,7 @@ function StudioLibrary() {
   });
   const refresh = () => queries.invalidateQueries({ queryKey: ['scenarios'] });
   const duplicate = useMutation({
-    mutationFn: (id: string) => api<{ scenarioId: string }>(`/api/scenarios/${id}/duplicate`, { method: 'POST' }),
+    mutationFn: (id: string) => api<{ scenarioId: string }>(`/api/scenarios/${id}/duplicate`, { method: 'POST', json: {} }),
     onSuccess: ({ scenarioId }) => goTo(scenarioId),
   });
   const archive = useMutation({

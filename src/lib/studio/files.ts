@@ -44,11 +44,38 @@ export async function checkUpload(bytes: Uint8Array): Promise<AttachmentType> {
   return type;
 }
 
-export function tooLarge(size: number): HttpError {
+/** `known` is false when the body was cut off at the limit, so only its lower bound is known. */
+export function tooLarge(size: number, known = true): HttpError {
   const mb = (n: number) => `${(n / 1024 / 1024).toFixed(1)} MB`;
-  return new HttpError(413, `This file is ${mb(size)}; briefing documents may be at most ${mb(MAX_ATTACHMENT_BYTES)}.`, [
+  return new HttpError(413, `This file is ${known ? mb(size) : `over ${mb(MAX_ATTACHMENT_BYTES)}`}; briefing documents may be at most ${mb(MAX_ATTACHMENT_BYTES)}.`, [
     { field: 'file', reason: 'over 20 MB' },
   ]);
+}
+
+/** The request body, read no further than `max` bytes (a body over the limit is refused as it arrives). */
+export async function readBody(request: Request, max: number): Promise<Uint8Array> {
+  const declared = Number(request.headers.get('content-length') ?? 0);
+  if (declared > max) throw tooLarge(declared);
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  const reader = request.body?.getReader();
+  for (;;) {
+    const next = await reader?.read();
+    if (!next || next.done) break;
+    size += next.value.byteLength;
+    if (size > max) {
+      await reader!.cancel();
+      throw tooLarge(size, false);
+    }
+    chunks.push(next.value);
+  }
+  const out = new Uint8Array(size);
+  let at = 0;
+  for (const chunk of chunks) {
+    out.set(chunk, at);
+    at += chunk.byteLength;
+  }
+  return out;
 }
 
 export function typeName(type: AttachmentType): string {

@@ -127,7 +127,7 @@ export function listScenarios(actor: Actor, options: { query?: string; archived?
 function latestVersions(scenarioIds: string[]): Map<string, VersionRow> {
   if (scenarioIds.length === 0) return new Map();
   const newest = db()
-    .select({ scenarioId: schema.scenarioVersion.scenarioId, number: max(schema.scenarioVersion.number).as('number') })
+    .select({ scenarioId: schema.scenarioVersion.scenarioId, latestNumber: max(schema.scenarioVersion.number).as('latest_number') })
     .from(schema.scenarioVersion)
     .where(inArray(schema.scenarioVersion.scenarioId, scenarioIds))
     .groupBy(schema.scenarioVersion.scenarioId)
@@ -135,7 +135,7 @@ function latestVersions(scenarioIds: string[]): Map<string, VersionRow> {
   const rows = db()
     .select({ version: schema.scenarioVersion })
     .from(schema.scenarioVersion)
-    .innerJoin(newest, and(eq(newest.scenarioId, schema.scenarioVersion.scenarioId), eq(newest.number, schema.scenarioVersion.number)))
+    .innerJoin(newest, and(eq(newest.scenarioId, schema.scenarioVersion.scenarioId), eq(newest.latestNumber, schema.scenarioVersion.number)))
     .all();
   return new Map(rows.map(({ version }) => [version.scenarioId, version]));
 }
@@ -305,7 +305,7 @@ export function changeLog(actor: Actor, scenarioId: string, versionId: string): 
     .from(schema.scenarioChange)
     .innerJoin(schema.user, eq(schema.user.id, schema.scenarioChange.userId))
     .where(eq(schema.scenarioChange.versionId, versionId))
-    .orderBy(asc(schema.scenarioChange.createdAt), asc(sql`rowid`))
+    .orderBy(asc(schema.scenarioChange.createdAt), asc(sql`"scenario_change".rowid`))
     .all()
     .map(({ change, userName }) => ({ id: change.id, summary: change.summary, paths: change.paths, userName, at: change.createdAt.toISOString() }));
 }

@@ -112,3 +112,20 @@ export function danglingReferences(document: Scenario): string[] {
   });
   return out;
 }
+
+export type RebuildReport = ({ ok: true } & Omit<Rebuilt, 'document'>) | { ok: false; faults: ScenarioFault[] };
+
+const inputsChanged = (a: Scenario, b: Scenario) => a.ladder !== b.ladder || a.teams !== b.teams || a.attributes !== b.attributes;
+
+/**
+ * After any change: when what the tree is built from changed and there is a
+ * ladder, the tree is rebuilt. When it cannot be, the change stands, the tree
+ * stays as it was, and the report says why.
+ */
+export function withTreeInStep(previous: Scenario, next: Scenario): { document: Scenario; report: RebuildReport | null } {
+  if (!next.ladder || !inputsChanged(previous, next)) return { document: next, report: null };
+  const rebuilt = rebuild(previous, { ...next, ladder: next.ladder });
+  if (!rebuilt.ok) return { document: next, report: rebuilt };
+  const { document, ...report } = rebuilt.result;
+  return { document, report: { ok: true, ...report } };
+}

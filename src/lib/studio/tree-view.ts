@@ -69,7 +69,10 @@ export function visibleTree(root: GameNode, collapsed: ReadonlySet<string>): Tre
   return { nodes, byId, total: sizes.get(root.id)! };
 }
 
-/** Branches to collapse so that at most `limit` nodes show: everything below the deepest depth that fits. */
+/**
+ * Branches to collapse so that at most `limit` nodes show: every branch from the
+ * deepest depth that fits downwards (so that opening one shows one more level).
+ */
 export function initialCollapse(root: GameNode, limit = VISIBLE_LIMIT): Set<string> {
   const perDepth: GameNode[][] = [];
   const stack: [GameNode, number][] = [[root, 0]];
@@ -83,15 +86,8 @@ export function initialCollapse(root: GameNode, limit = VISIBLE_LIMIT): Set<stri
     const next = perDepth[depth + 1]?.length ?? 0;
     shown += perDepth[depth]!.length;
     if (shown + next > limit) {
-      return new Set(perDepth[depth]!.filter((n) => childEdges(n).length > 0).map((n) => n.id));
+      return new Set(perDepth.slice(depth).flatMap((nodes) => nodes.filter((n) => childEdges(n).length > 0).map((n) => n.id)));
     }
   }
   return new Set();
-}
-
-/** The ids from the root down to `id` (to expand a path so a node can be shown). */
-export function pathIds(id: string, parentOf: (id: string) => string | null): string[] {
-  const line: string[] = [];
-  for (let at: string | null = id; at !== null; at = parentOf(at)) line.push(at);
-  return line.reverse();
 }

@@ -6,16 +6,18 @@
 import { Background, ReactFlow, ReactFlowProvider, useReactFlow, type Edge } from '@xyflow/react';
 import '@xyflow/react/dist/base.css';
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent, type ReactNode } from 'react';
-import type { GameNode, Team } from '../../../lib/engine/model';
+import type { GameNode } from '../../../lib/engine/model';
 import { treeSvg } from '../../../lib/studio/tree-svg';
 import { initialCollapse, VISIBLE_LIMIT, visibleTree, type TreeView, type ViewNode } from '../../../lib/studio/tree-view';
 import { layoutTree, type Layout } from './layout';
 import { NODE_TYPES, type CanvasNode, type CanvasNodeData } from './nodes';
 import { downloadBlob, svgToPng } from '../download';
 
+export type CanvasTeam = { id: string; name: string; colour?: string };
+
 export type TreeCanvasProps = {
   root: GameNode;
-  teams: Team[];
+  teams: CanvasTeam[];
   /** Formatted payoffs per terminal id, in team order. */
   payoffs: Map<string, string[]>;
   /** Node ids on the highlighted equilibrium path. */
@@ -32,7 +34,7 @@ export type TreeCanvasProps = {
 const PATH_STROKE = 'var(--color-bronze-600)';
 const EDGE_STROKE = 'var(--color-ink-300)';
 
-function describe(view: ViewNode, teams: Team[]): string {
+function describe(view: ViewNode, teams: CanvasTeam[]): string {
   const where = view.edgeLabel ? `after “${view.edgeLabel}”` : 'at the root';
   const node = view.node;
   const what =
@@ -44,12 +46,12 @@ function describe(view: ViewNode, teams: Team[]): string {
   return `${what}, ${where}${view.collapsed ? `, collapsed with ${view.hidden} nodes hidden` : ''}`;
 }
 
-function nodeData(view: ViewNode, teams: Team[], payoffs: Map<string, string[]>, path: ReadonlySet<string>): CanvasNodeData {
+function nodeData(view: ViewNode, teams: CanvasTeam[], payoffs: Map<string, string[]>, path: ReadonlySet<string>): CanvasNodeData {
   const node = view.node;
   const base = { kind: node.kind, onPath: path.has(view.id), collapsed: view.collapsed, hidden: view.hidden, teamIndex: 0 };
   if (node.kind === 'decision') {
     const teamIndex = Math.max(0, teams.findIndex((t) => t.id === node.team));
-    return { ...base, teamIndex, title: teams[teamIndex]?.name ?? node.team, lines: node.infoset ? [`moves unseen · set ${node.infoset.slice(-12)}`] : [`${node.actions.length} actions`] };
+    return { ...base, teamIndex, colour: teams[teamIndex]?.colour, title: teams[teamIndex]?.name ?? node.team, lines: node.infoset ? [`moves unseen · set ${node.infoset.slice(-12)}`] : [`${node.actions.length} actions`] };
   }
   if (node.kind === 'chance') return { ...base, title: 'Chance', lines: [] };
   const values = payoffs.get(view.id) ?? [];
@@ -70,6 +72,16 @@ function Canvas(props: TreeCanvasProps) {
     const shown = visibleTree(root, collapsed);
     return shown.nodes.length > VISIBLE_LIMIT ? visibleTree(root, initialCollapse(root)) : shown;
   }, [root, collapsed]);
+
+  // Open the branches along the highlighted path (the author may fold them again).
+  useEffect(() => {
+    setCollapsed((was) => {
+      if (![...path].some((id) => was.has(id))) return was;
+      const next = new Set(was);
+      for (const id of path) next.delete(id);
+      return next;
+    });
+  }, [path]);
 
   useEffect(() => {
     let current = true;

@@ -6,8 +6,9 @@ export type CanvasNodeData = {
   kind: 'decision' | 'chance' | 'terminal';
   title: string;
   lines: string[];
-  /** Index of the moving team, for its colour. */
+  /** Index of the moving team, for its colour when the scenario gives none. */
   teamIndex: number;
+  colour?: string;
   onPath: boolean;
   collapsed: boolean;
   hidden: number;
@@ -35,7 +36,7 @@ function DecisionShape({ data, selected }: NodeProps<CanvasNode>) {
   return (
     <div className={`relative flex h-full w-full overflow-hidden rounded-md bg-white text-left ${frame(data, selected)}`} data-kind="decision" data-on-path={data.onPath || undefined}>
       <Handle type="target" position={Position.Left} style={handle} isConnectable={false} />
-      <span className={`w-1.5 shrink-0 ${TEAM_STRIPES[data.teamIndex % TEAM_STRIPES.length]}`} aria-hidden="true" />
+      <span className={`w-1.5 shrink-0 ${data.colour ? '' : TEAM_STRIPES[data.teamIndex % TEAM_STRIPES.length]}`} style={data.colour ? { background: data.colour } : undefined} aria-hidden="true" />
       <span className="min-w-0 px-2 py-1.5">
         <span className="block truncate text-sm font-semibold text-ink-900">{data.title}</span>
         {data.lines.map((line) => (
