@@ -109,7 +109,7 @@ async function seedFinishedRun(people: DemoIds, scenario: SeededScenario): Promi
 async function seedLiveRun(people: DemoIds, scenario: SeededScenario): Promise<string> {
   const facilitator = sessionUser(people.facilitator);
   const now = Date.now();
-  const { id } = createExercise(facilitator, { scenarioVersionId: scenario.versionId, title: 'Serrin Strait · staff course, run 2 (live)', settings: { turnSeconds: 600, atDeadline: 'facilitator' } }, now);
+  const { id } = createExercise(facilitator, { scenarioVersionId: scenario.versionId, title: 'Serrin Strait · staff course, run 2', settings: { turnSeconds: 600, atDeadline: 'facilitator' } }, now);
   await seatEveryone(id, facilitator, now);
   applyIntent(id, facilitator, key(), { kind: 'phase', to: 'briefing' }, now);
   return id;

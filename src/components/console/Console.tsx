@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { FormMessage } from '../ui/Field';
 import { useIntent, useLive, useServerNow, type Initial, type Send } from '../desk/live';
-import { Analysis, Countdown, Empty, Injects, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName, teamName } from '../desk/parts';
+import { Analysis, Empty, Injects, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName, teamName } from '../desk/parts';
 import type { LiveState } from '../../lib/exercise/live-client';
 import type { Snapshot } from '../../lib/exercise/view';
 import { Roster, SettingsForm, AuditLog } from './Setup';
@@ -155,6 +155,14 @@ function RunTab({ view, live, now, send }: { view: Snapshot; live: LiveState; no
   );
 }
 
+function clockWords(c: Snapshot['clock'], now: number | null): string {
+  const minutes = (ms: number) => `${Math.max(0, Math.ceil(ms / 60_000))} min`;
+  if (c.status === 'none') return 'No clock at this point of play.';
+  if (c.status === 'expired') return 'Time is up for this turn.';
+  if (c.status === 'held') return `Held, ${minutes(c.leftMs ?? 0)} left.`;
+  return now === null ? 'Running.' : `Running, ${minutes((c.deadlineAt ?? now) - now)} left.`;
+}
+
 const STATUS_WORDS = { waiting: 'not started', drafting: 'drafting', proposed: 'proposal to adjudicate', submitted: 'submitted' } as const;
 
 function TeamBoard({ view, live }: { view: Snapshot; live: LiveState }) {
@@ -187,7 +195,7 @@ function TeamBoard({ view, live }: { view: Snapshot; live: LiveState }) {
           );
         })}
       </tbody>
-      <caption className="caption-bottom pt-2 text-left text-xs text-ink-500">{online.size} people connected in all</caption>
+      <caption className="caption-bottom pt-2 text-left text-xs text-ink-500">{online.size === 1 ? '1 person' : `${online.size} people`} connected in all</caption>
     </table>
   );
 }
@@ -198,7 +206,7 @@ function ClockControls({ view, now, send }: { view: Snapshot; now: number | null
   const moving = view.situation.kind === 'decision' || view.situation.kind === 'simultaneous';
   return (
     <div>
-      <Countdown clock={c} now={now} large />
+      <p className="text-sm text-ink-800" data-testid="clock-status">{clockWords(c, now)}</p>
       <p className="mt-1 text-xs text-ink-600">
         {c.turnSeconds === null ? 'No turn length is set.' : `Turns last ${Math.round(c.turnSeconds / 60)} min. `}
         At the deadline: {c.rule === 'hold' ? 'a late team holds its position' : 'you decide the late team’s move'}.
@@ -207,12 +215,12 @@ function ClockControls({ view, now, send }: { view: Snapshot; now: number | null
         <div className="mt-3 flex flex-wrap gap-2">
           {c.status === 'held' && (
             <button type="button" className="btn-accent py-1.5" disabled={clock.busy || view.exercise.state !== 'live'} onClick={() => void clock.run({ kind: 'clock', action: 'start' })}>
-              Start
+              Start the clock
             </button>
           )}
           {c.status === 'running' && (
             <button type="button" className="btn-quiet py-1.5" disabled={clock.busy} onClick={() => void clock.run({ kind: 'clock', action: 'hold' })}>
-              Hold
+              Hold the clock
             </button>
           )}
           <button type="button" className="btn-quiet py-1.5" disabled={clock.busy} onClick={() => void clock.run({ kind: 'clock', action: 'extend', seconds: 60 })}>

@@ -12,6 +12,12 @@ export default function Desk({ exerciseId, initial }: Props) {
   const now = useServerNow(live.clockOffset);
   const teamId = view.me.teamId;
   const myTeam = view.exercise.teams.find((t) => t.id === teamId);
+  const beforePlay = view.exercise.state === 'draft' || view.exercise.state === 'briefing';
+  const brief = (
+    <Panel title="Brief" id="brief">
+      <Briefs view={view} />
+    </Panel>
+  );
   return (
     <div data-surface="desk">
       <StatusStrip view={view} live={live} now={now}>
@@ -26,6 +32,7 @@ export default function Desk({ exerciseId, initial }: Props) {
       <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_24rem]">
         <div className="space-y-4">
           <TurnPanel view={view} send={send} />
+          {beforePlay && brief}
           <Panel title="Where the crisis stands" id="situation">
             <Situation view={view} />
             <h3 className="mt-4 mb-1 text-sm font-semibold text-ink-800">Moves revealed so far</h3>
@@ -41,9 +48,7 @@ export default function Desk({ exerciseId, initial }: Props) {
           <Panel title="Injects" id="injects">
             <Injects view={view} />
           </Panel>
-          <Panel title="Brief" id="brief">
-            <Briefs view={view} />
-          </Panel>
+          {!beforePlay && brief}
           <Panel title="Your team" id="team">
             <TeamList view={view} online={new Set(live.presence.online.map((p) => p.name))} />
           </Panel>

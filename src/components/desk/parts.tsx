@@ -294,7 +294,7 @@ export function Situation({ view }: { view: Snapshot }) {
           <p className="text-sm text-ink-700">{s.rung.description}</p>
         </div>
       ) : (
-        <p className="mb-2 text-sm text-ink-700">{view.moves.length === 0 ? 'The crisis has not moved yet.' : 'Play continues.'}</p>
+        <p className="mb-2 text-sm text-ink-700">{view.moves.length === 0 ? 'Play has not moved the crisis yet.' : 'Play continues.'}</p>
       )}
       {s.outcome && (
         <div className="rounded-md border border-moss-600 bg-moss-100 p-3 text-sm text-moss-700" data-testid="outcome">
@@ -347,7 +347,9 @@ export function Analysis({ analysis, teams }: { analysis: AnalysisView; teams: T
           )}
           {analysis.forecast && (
             <div>
-              <p className="text-xs font-semibold tracking-wide text-ink-500 uppercase">Logit QRE forecast (λ = {analysis.forecast.lambda})</p>
+              <p className="text-xs font-semibold tracking-wide text-ink-500">
+                <span className="uppercase">Logit QRE forecast</span> (λ = {analysis.forecast.lambda})
+              </p>
               {analysis.forecast.teams.map((t) => (
                 <div key={t.teamId} className="mt-1">
                   <TeamName teams={teams} teamId={t.teamId} />

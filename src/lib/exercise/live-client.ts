@@ -39,6 +39,8 @@ export class IntentRefused extends Error {
 
 type Waiting = { intent: Intent; resolve(result: Record<string, unknown>): void; reject(error: Error): void };
 
+/** WebSocket.OPEN, spelled out so the class runs where no global WebSocket exists. */
+const OPEN = 1;
 const HEARTBEAT_MS = 10_000;
 const SILENCE_MS = 25_000;
 const LOG_KEEP = 300;
@@ -54,9 +56,11 @@ export class LiveClient {
   private heartbeat: ReturnType<typeof setInterval> | null = null;
   private stopped = false;
 
+  /** `connect` opens the socket: the browser's WebSocket by default; tests and the benchmark hand in the ws package's. */
   constructor(
     private readonly exerciseId: string,
     initial: { seq: number; view: Snapshot } | null = null,
+    private readonly connect: (exerciseId: string) => WebSocket = (id) => new WebSocket(socketUrl(id)),
   ) {
     if (initial) this.state = { ...this.state, snapshot: initial.view, seq: initial.seq };
   }
@@ -70,14 +74,14 @@ export class LiveClient {
     this.stopped = false;
     this.open();
     this.heartbeat = setInterval(() => this.checkLine(), HEARTBEAT_MS);
-    window.addEventListener('online', this.reconnectNow);
+    if (typeof window !== 'undefined') window.addEventListener('online', this.reconnectNow);
   }
 
   stop(): void {
     this.stopped = true;
     if (this.heartbeat) clearInterval(this.heartbeat);
     this.timers.forEach(clearTimeout);
-    window.removeEventListener('online', this.reconnectNow);
+    if (typeof window !== 'undefined') window.removeEventListener('online', this.reconnectNow);
     this.socket?.close(1000, 'Leaving');
   }
 
@@ -92,7 +96,7 @@ export class LiveClient {
   }
 
   private ready(): boolean {
-    return this.socket?.readyState === WebSocket.OPEN && this.state.connection === 'open';
+    return this.socket?.readyState === OPEN && this.state.connection === 'open';
   }
 
   private transmit(key: string, intent: Intent): void {
@@ -100,7 +104,7 @@ export class LiveClient {
   }
 
   private open(): void {
-    const socket = new WebSocket(socketUrl(this.exerciseId));
+    const socket = this.connect(this.exerciseId);
     this.socket = socket;
     socket.onopen = () => {
       this.lastHeard = Date.now();
@@ -133,7 +137,7 @@ export class LiveClient {
   };
 
   private checkLine(): void {
-    if (!this.socket || this.socket.readyState !== WebSocket.OPEN) return;
+    if (!this.socket || this.socket.readyState !== OPEN) return;
     if (Date.now() - this.lastHeard > SILENCE_MS) {
       this.socket.close(4000, 'No answer from the server');
       return;

@@ -22,6 +22,8 @@ export type ScenarioInfo = {
   document: Scenario;
   game: Game;
   teams: { id: string; name: string; colour: string | null; brief: RichText | null }[];
+  /** The rung the crisis stands on before any move, when the tree came from a ladder. */
+  startRung: number | null;
   injects: AuthoredInject[];
 };
 
@@ -48,6 +50,7 @@ export function readScenario(versionId: string, scenarioId: string, document: Sc
     document,
     game: scenarioGame(document),
     teams: document.teams.map((t) => ({ id: t.id, name: t.name, colour: t.colour ?? null, brief: t.brief ?? null })),
+    startRung: document.ladder?.start ?? null,
     injects: document.injects.map((i) => ({ id: i.id, nodeId: i.nodeId, title: i.title, body: plainText(i.body), to: i.to, attachmentIds: [] })),
   };
 }

@@ -203,7 +203,7 @@ function optionsOf(stage: MovingStage, teamId: string): OptionView[] {
 function situationView(source: Source, viewer: Viewer): SituationView {
   const stage = source.stage;
   const game = source.scenario.game;
-  const rungIndex = rungIndexAt(game, stage.nodeId);
+  const rungIndex = rungIndexAt(game, stage.nodeId) ?? source.scenario.startRung;
   const rung = rungIndex === null ? null : (game.rungs?.[rungIndex] ?? null);
   const base: SituationView = {
     turn: source.exercise.turn,
@@ -219,7 +219,7 @@ function situationView(source: Source, viewer: Viewer): SituationView {
   };
   if (stage.kind === 'chance') return { ...base, chance: stage.outcomes.map((o) => ({ label: o.label, p: o.exact })) };
   if (stage.kind === 'terminal') {
-    const payoffs = may(source, viewer, 'analysis.read') ? Object.fromEntries(Object.entries(stage.payoffs).map(([t, v]) => [t, v.exact])) : null;
+    const payoffs = may(source, viewer, 'analysis.read') ? Object.fromEntries(Object.entries(stage.payoffs).map(([t, v]) => [t, v.value.toFixed(2)])) : null;
     return { ...base, outcome: { text: stage.outcome ?? 'The game has reached an outcome', payoffs } };
   }
   const movers = moverTeams(stage).map((teamId) => {

@@ -4,7 +4,7 @@
  * see. Every change goes through commitChange (one transaction, one numbered
  * event) and then to the hub (publish) for acknowledgement and broadcast.
  */
-import { and, desc, eq, gt, sql } from 'drizzle-orm';
+import { and, desc, eq, gt, isNull, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { db, schema } from '../../db/client';
 import { authorize, HttpError } from '../http';
@@ -14,7 +14,7 @@ import { sendMail } from '../mail';
 import { exerciseSeatMail } from '../mail-templates';
 import { EXERCISE_ROLES, type ExerciseRole } from '../roles';
 import type { SessionUser } from '../auth';
-import { freezeVersion, listScenarios, scenarioContext, scenarioDetail } from '../studio/library';
+import { freezeVersion, scenarioContext } from '../studio/library';
 import { allowed } from '../access';
 import { freshClock } from './clock';
 import { commitChange, commitIntent, type Actor, type Committed } from './commit';
@@ -95,6 +95,7 @@ export type ExerciseListEntry = {
   role: ExerciseRole;
   teamId: string | null;
   scenarioTitle: string;
+  scenarioVersionId: string;
   versionNumber: number;
   participants: number;
   createdAt: string;
@@ -109,6 +110,7 @@ export function exercisesFor(user: SessionUser): ExerciseListEntry[] {
       role: schema.membership.role,
       teamId: schema.membership.teamId,
       scenarioTitle: schema.scenario.title,
+      scenarioVersionId: schema.exercise.scenarioVersionId,
       versionNumber: schema.scenarioVersion.number,
       participants: sql<number>`(select count(*) from ${schema.membership} m where m.exercise_id = ${schema.exercise.id})`,
       createdAt: schema.exercise.createdAt,
@@ -123,18 +125,25 @@ export function exercisesFor(user: SessionUser): ExerciseListEntry[] {
     .map((row) => ({ ...row, participants: Number(row.participants), createdAt: row.createdAt.toISOString() }));
 }
 
-/** The scenario versions this person may start an exercise on, newest first. */
+/** The scenario versions this person may start an exercise on: each scenario's versions, newest first. */
 export function creatableVersions(user: SessionUser): { id: string; label: string; scenarioTitle: string; frozen: boolean }[] {
-  return listScenarios(user).flatMap((entry) => {
-    const scenario = db().select().from(schema.scenario).where(eq(schema.scenario.id, entry.id)).get();
-    if (!scenario || !allowed(user, 'exercise.create', scenarioContext(user, scenario))) return [];
-    return scenarioDetail(user, entry.id).versions.map((v) => ({
-      id: v.id,
-      scenarioTitle: entry.title,
-      label: `version ${v.number} (${v.status === 'frozen' ? 'frozen' : 'draft, frozen on use'})`,
-      frozen: v.status === 'frozen',
-    }));
-  });
+  const scenarios = db().select().from(schema.scenario).where(isNull(schema.scenario.archivedAt)).orderBy(desc(schema.scenario.updatedAt)).all();
+  return scenarios
+    .filter((scenario) => allowed(user, 'exercise.create', scenarioContext(user, scenario)))
+    .flatMap((scenario) =>
+      db()
+        .select({ id: schema.scenarioVersion.id, number: schema.scenarioVersion.number, status: schema.scenarioVersion.status })
+        .from(schema.scenarioVersion)
+        .where(eq(schema.scenarioVersion.scenarioId, scenario.id))
+        .orderBy(desc(schema.scenarioVersion.number))
+        .all()
+        .map((v) => ({
+          id: v.id,
+          scenarioTitle: scenario.title,
+          label: `version ${v.number} (${v.status === 'frozen' ? 'frozen' : 'draft, frozen on use'})`,
+          frozen: v.status === 'frozen',
+        })),
+    );
 }
 
 // ---------------------------------------------------------------------------
