@@ -333,6 +333,20 @@ export const reportDispatch = sqliteTable(
   (t) => [index('report_dispatch_version_idx').on(t.versionId)],
 );
 
+/**
+ * The review of an exercise as last computed, with the fingerprint of the play
+ * record it was computed from. The lambda fit takes seconds; a restart should
+ * not have to repeat it for play that did not change.
+ */
+export const reviewCache = sqliteTable('review_cache', {
+  exerciseId: text('exercise_id')
+    .primaryKey()
+    .references(() => exercise.id, { onDelete: 'cascade' }),
+  fingerprint: text('fingerprint').notNull(),
+  review: text('review', { mode: 'json' }).$type<unknown>().notNull(),
+  computedAt: createdAt(),
+});
+
 export const reportComment = sqliteTable(
   'report_comment',
   {
