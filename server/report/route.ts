@@ -27,15 +27,17 @@ function modeFor(user: Parameters<SocketRoute['admit']>[0], exerciseId: string):
 
 export const reportRoute: SocketRoute = {
   pattern: /^\/ws\/report\/(?<exerciseId>[\w-]+)$/,
-  admit(user, { exerciseId }) {
+  /** The first visitor waits for the draft to be generated, before the socket opens. */
+  async admit(user, { exerciseId }) {
     const mode = modeFor(user, exerciseId!);
-    return typeof mode === 'string' ? { ok: true } : mode;
+    if (typeof mode !== 'string') return mode;
+    await ensureReportDraft(exerciseId!);
+    return { ok: true };
   },
   open(socket, { user, params }) {
     const exerciseId = params.exerciseId!;
     const mode = modeFor(user, exerciseId);
     if (typeof mode !== 'string') return socket.close(4403, mode.ok ? 'Refused' : mode.reason);
-    ensureReportDraft(exerciseId);
     joinReport(exerciseId, socket, user, mode);
   },
 };

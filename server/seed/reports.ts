@@ -63,7 +63,7 @@ function sessionUser(id: string): SessionUser {
 
 export async function seedReports(people: DemoIds, exercises: SeededExercises): Promise<void> {
   const exerciseId = exercises.finishedExerciseId;
-  const { review, record, scenarioTitle } = exerciseReview(exerciseId);
+  const { review, record, scenarioTitle } = await exerciseReview(exerciseId);
   ensureDraft(exerciseId, () => writeSections(firstDraft({ review, scenarioTitle, startedAt: record.startedAt, endedAt: record.endedAt })));
   const facilitator = sessionUser(people.facilitator);
   const issued = issueVersion(exerciseId, record.title, facilitator);

@@ -44,7 +44,7 @@ export function CommentsPanel({ exerciseId, may }: { exerciseId: string; may: Re
     },
   });
   const resolve = useMutation({
-    mutationFn: (id: string) => api(`/api/exercises/${exerciseId}/report/comments/${id}/resolve`, { method: 'POST' }),
+    mutationFn: (id: string) => api(`/api/exercises/${exerciseId}/report/comments/${id}/resolve`, { method: 'POST', json: {} }),
     onSuccess: () => queries.invalidateQueries({ queryKey: key }),
   });
   const open = (list.data?.comments ?? []).filter((c) => !c.resolvedAt);

@@ -9,7 +9,7 @@ import type { ReportState } from './ReportWorkspace';
 export function IssueButton({ exerciseId, nextNumber, onIssued }: { exerciseId: string; nextNumber: number; onIssued: () => void }) {
   const [confirming, setConfirming] = useState(false);
   const issue = useMutation({
-    mutationFn: () => api<{ version: { number: number } }>(`/api/exercises/${exerciseId}/report/versions`, { method: 'POST' }),
+    mutationFn: () => api<{ version: { number: number } }>(`/api/exercises/${exerciseId}/report/versions`, { method: 'POST', json: {} }),
     onSuccess: () => {
       setConfirming(false);
       onIssued();

@@ -3,7 +3,7 @@ import { loadPlayRecord } from '../exercise/record';
 import { exerciseReview } from './analysis';
 import { firstDraft, SECTION_TITLES } from './draft';
 import type { JSONContent } from './schema';
-import { ensureDraft } from './store';
+import { ensureDraft, hasDraft } from './store';
 
 /** When the review cannot be computed (a record that does not fit its scenario), the draft says why and keeps the sections. */
 function draftWithoutAnalysis(exerciseId: string, reason: string): JSONContent {
@@ -19,13 +19,18 @@ function draftWithoutAnalysis(exerciseId: string, reason: string): JSONContent {
   };
 }
 
-export function ensureReportDraft(exerciseId: string): boolean {
-  return ensureDraft(exerciseId, () => {
-    try {
-      const { review, record, scenarioTitle } = exerciseReview(exerciseId);
-      return firstDraft({ review, scenarioTitle, startedAt: record.startedAt, endedAt: record.endedAt });
-    } catch (error) {
-      return draftWithoutAnalysis(exerciseId, error instanceof Error ? error.message : String(error));
-    }
-  });
+async function generated(exerciseId: string): Promise<JSONContent> {
+  try {
+    const { review, record, scenarioTitle } = await exerciseReview(exerciseId);
+    return firstDraft({ review, scenarioTitle, startedAt: record.startedAt, endedAt: record.endedAt });
+  } catch (error) {
+    return draftWithoutAnalysis(exerciseId, error instanceof Error ? error.message : String(error));
+  }
+}
+
+/** True when this call stored the first draft. */
+export async function ensureReportDraft(exerciseId: string): Promise<boolean> {
+  if (hasDraft(exerciseId)) return false;
+  const content = await generated(exerciseId);
+  return ensureDraft(exerciseId, () => content);
 }

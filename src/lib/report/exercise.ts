@@ -5,20 +5,26 @@ import type { ExerciseContext, ExerciseSettings } from '../access';
 import { HttpError, requireActor } from '../http';
 
 export type ExerciseAccess = {
-  exercise: { id: string; title: string; state: schema.ExerciseState; scenarioVersionId: string; startedAt: Date | null; endedAt: Date | null };
+  exercise: { id: string; title: string; state: schema.ExerciseState; scenarioId: string; scenarioVersionId: string; startedAt: Date | null; endedAt: Date | null };
   ctx: ExerciseContext;
 };
 
 export function exerciseAccess(userId: string, exerciseId: string): ExerciseAccess {
-  const row = db().select().from(schema.exercise).where(eq(schema.exercise.id, exerciseId)).get();
-  if (!row) throw new HttpError(404, 'No such exercise');
+  const found = db()
+    .select({ exercise: schema.exercise, scenarioId: schema.scenarioVersion.scenarioId })
+    .from(schema.exercise)
+    .innerJoin(schema.scenarioVersion, eq(schema.scenarioVersion.id, schema.exercise.scenarioVersionId))
+    .where(eq(schema.exercise.id, exerciseId))
+    .get();
+  if (!found) throw new HttpError(404, 'No such exercise');
+  const row = found.exercise;
   const seat = db()
     .select({ role: schema.membership.role, teamId: schema.membership.teamId, isLead: schema.membership.isLead })
     .from(schema.membership)
     .where(and(eq(schema.membership.exerciseId, exerciseId), eq(schema.membership.userId, userId)))
     .get();
   return {
-    exercise: { id: row.id, title: row.title, state: row.state, scenarioVersionId: row.scenarioVersionId, startedAt: row.startedAt, endedAt: row.endedAt },
+    exercise: { id: row.id, title: row.title, state: row.state, scenarioId: found.scenarioId, scenarioVersionId: row.scenarioVersionId, startedAt: row.startedAt, endedAt: row.endedAt },
     ctx: { seat: seat ?? null, state: row.state, settings: row.settings as ExerciseSettings },
   };
 }

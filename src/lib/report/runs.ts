@@ -24,7 +24,10 @@ function seatsOf(userId: string, exerciseIds: string[]) {
   return new Map(rows.map((r) => [r.exerciseId, { role: r.role, teamId: r.teamId, isLead: r.isLead }]));
 }
 
-export function scenarioRuns(actor: SessionUser, scenarioId: string): ScenarioRuns {
+type Readable = { scenario: { id: string; title: string }; exercises: { id: string; title: string }[] };
+
+/** The scenario and the played runs of it this reader may compare; refuses with the access rule's reason. */
+export function readableRuns(actor: SessionUser, scenarioId: string): Readable {
   const scenario = db().select().from(schema.scenario).where(eq(schema.scenario.id, scenarioId)).get();
   if (!scenario) throw new HttpError(404, 'No such scenario');
   const exercises = db()
@@ -42,15 +45,20 @@ export function scenarioRuns(actor: SessionUser, scenarioId: string): ScenarioRu
   const readable = exercises.filter(
     (e) => PLAYED.includes(e.state) && (seesAll || allowed(actor, 'review.read', { seat: seats.get(e.id) ?? null, state: e.state, settings: e.settings as ExerciseSettings })),
   );
+  return { scenario: { id: scenario.id, title: scenario.title }, exercises: readable.map((e) => ({ id: e.id, title: e.title })) };
+}
+
+export async function scenarioRuns(actor: SessionUser, scenarioId: string): Promise<ScenarioRuns> {
+  const { scenario, exercises } = readableRuns(actor, scenarioId);
   const reviewed: Parameters<typeof compareReviews>[0] = [];
   const skipped: ScenarioRuns['skipped'] = [];
-  for (const e of readable) {
+  for (const e of exercises) {
     try {
-      const { review, record } = exerciseReview(e.id);
+      const { review, record } = await exerciseReview(e.id);
       reviewed.push({ review, record });
     } catch (error) {
       skipped.push({ title: e.title, reason: error instanceof Error ? error.message : String(error) });
     }
   }
-  return { scenario: { id: scenario.id, title: scenario.title }, overview: compareReviews(reviewed), skipped };
+  return { scenario, overview: compareReviews(reviewed), skipped };
 }

@@ -15,7 +15,9 @@ export {
   type Equilibrium,
   type Game,
   type GameNode,
+  type LogitFit,
   type Observation as EngineObservation,
+  type SubgamePerfectResult,
   type Rung,
   type TerminalNode,
 } from '../engine';

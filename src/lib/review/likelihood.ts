@@ -3,11 +3,16 @@
  * and the log-likelihood of its moves under that QRE, under uniform random play
  * and under equilibrium play with trembles. The engine does the fitting.
  */
-import { fitLogit, logitQre, trembleLogLikelihood, type EngineObservation, type Equilibrium, type Game } from './engine';
+import { fitLogit, logitQre, trembleLogLikelihood, type EngineObservation, type Equilibrium, type Game, type LogitFit } from './engine';
 import type { Choices } from './paths';
 import type { TeamFit } from './types';
 
 export type Observation = { teamId: string; nodeId: string; label: string };
+
+/** The moves the engine fits lambda to, in its own terms. */
+export function engineObservations(observations: Observation[]): EngineObservation[] {
+  return observations.map((o) => ({ node: o.nodeId, label: o.label }));
+}
 
 export type TeamFits = {
   fits: TeamFit[];
@@ -17,10 +22,11 @@ export type TeamFits = {
   qre: Choices;
 };
 
-export function fitTeams(game: Game, observations: Observation[], equilibrium: Equilibrium, tremble: number): TeamFits {
-  const engineObservations: EngineObservation[] = observations.map((o) => ({ node: o.nodeId, label: o.label }));
-  const fit = fitLogit(game, engineObservations);
-  const trembles = trembleLogLikelihood(game, equilibrium, engineObservations, tremble);
+/** `fitted` is the engine's fit of these observations when it was made elsewhere (the solver pool). */
+export function fitTeams(game: Game, observations: Observation[], equilibrium: Equilibrium, tremble: number, fitted?: LogitFit): TeamFits {
+  const observed = engineObservations(observations);
+  const fit = fitted ?? fitLogit(game, observed);
+  const trembles = trembleLogLikelihood(game, equilibrium, observed, tremble);
   const lambdas = Object.fromEntries(game.teams.map((t) => [t.id, fit.teams[t.id]!.lambda]));
   const fits = game.teams.map((team): TeamFit => {
     const own = fit.teams[team.id]!;

@@ -14,6 +14,8 @@ import {
   type Equilibrium,
   type Game,
   type GameNode,
+  type LogitFit,
+  type SubgamePerfectResult,
 } from './engine';
 import { fitTeams, type Observation } from './likelihood';
 import { drawsOf, followProfile, playedLine, PlayMismatch, type Choices, type Draws, type Line } from './paths';
@@ -33,7 +35,12 @@ import type {
 /** Probability of a random action in the "equilibrium with trembles" benchmark (common practice, no single source). */
 export const DEFAULT_TREMBLE = 0.01;
 
-export type ReviewOptions = { tremble?: number };
+export type ReviewOptions = {
+  tremble?: number;
+  /** The engine's heavy results, when they were computed elsewhere (the solver pool): the equilibria of the game and the fit of the record's ladder moves. */
+  solved?: SubgamePerfectResult;
+  fit?: LogitFit;
+};
 
 type Context = {
   game: Game;
@@ -57,11 +64,11 @@ function contextOf(game: Game): Context {
 export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOptions = {}): Review {
   const tremble = options.tremble ?? DEFAULT_TREMBLE;
   const ctx = contextOf(game);
-  const solved = solveSubgamePerfect(game);
+  const solved = options.solved ?? solveSubgamePerfect(game);
   const equilibrium = solved.equilibria[0]!;
   const played = playedLine(game, record.moves);
   const draws = drawsOf(record.moves);
-  const { fits, lambdas, qre } = fitTeams(game, observationsOf(record.moves), equilibrium, tremble);
+  const { fits, lambdas, qre } = fitTeams(game, observationsOf(record.moves), equilibrium, tremble, options.fit);
   const moves = record.moves.map((move, i) => reviewMove(ctx, equilibrium, qre, move, i + 1, played.nodes[i]!));
   for (const fit of fits) {
     const own = moves.filter((m) => m.teamId === fit.teamId);
@@ -93,7 +100,7 @@ export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOption
 }
 
 /** The ladder moves teams chose themselves; adjudicated moves and chance draws are not their choices. */
-function observationsOf(moves: PlayedMove[]): Observation[] {
+export function observationsOf(moves: PlayedMove[]): Observation[] {
   return moves.filter((m) => m.kind === 'ladder' && m.teamId).map((m) => ({ teamId: m.teamId!, nodeId: m.nodeId, label: m.label }));
 }
 

@@ -10,9 +10,9 @@ export const GET = endpoint(({ locals, params }) => {
 });
 
 /** Issue the draft as it stands now: the next numbered, frozen version. */
-export const POST = endpoint(({ locals, params }) => {
+export const POST = endpoint(async ({ locals, params }) => {
   const { actor, ctx, exercise } = exerciseFromRoute(locals, params);
   authorize(actor, 'report.issue', ctx);
-  ensureReportDraft(exercise.id);
+  await ensureReportDraft(exercise.id);
   return json({ version: issueVersion(exercise.id, exercise.title, actor) }, 201);
 });
