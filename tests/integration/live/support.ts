@@ -121,6 +121,15 @@ export class RawSocket {
     }
   }
 
+  /** The next answer to something this socket sent, skipping what the server pushes by itself (presence, updates, analysis). */
+  async reply<T = any>(ms = 5000): Promise<T> {
+    const deadline = Date.now() + ms;
+    for (;;) {
+      const message = await this.next<{ type: string }>(Math.max(1, deadline - Date.now()));
+      if (!['presence', 'update', 'analysis'].includes(message.type)) return message as T;
+    }
+  }
+
   send(data: string | Buffer, binary = false): void {
     this.ws.send(data, { binary });
   }
