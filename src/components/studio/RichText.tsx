@@ -2,6 +2,7 @@
 import { EditorContent, useEditor, useEditorState, type Editor, type JSONContent } from '@tiptap/react';
 import StarterKit from '@tiptap/starter-kit';
 import { useEffect } from 'react';
+import './rich-text.css';
 
 type Props = {
   id: string;
@@ -30,7 +31,10 @@ export function RichText({ id, label, value, onChange, placeholder, readOnly = f
         ...(placeholder ? { 'data-placeholder': placeholder } : {}),
       },
     },
-    onUpdate: ({ editor }) => onChange(editor.getJSON()),
+    // Only the author's own edits count: Tiptap also updates when it normalises loaded content.
+    onUpdate: ({ editor }) => {
+      if (editor.isFocused) onChange(editor.getJSON());
+    },
   });
 
   // Another part of the page (undo, a reload) replaced the value: show it.

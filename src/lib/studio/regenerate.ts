@@ -115,7 +115,9 @@ export function danglingReferences(document: Scenario): string[] {
 
 export type RebuildReport = ({ ok: true } & Omit<Rebuilt, 'document'>) | { ok: false; faults: ScenarioFault[] };
 
-const inputsChanged = (a: Scenario, b: Scenario) => a.ladder !== b.ladder || a.teams !== b.teams || a.attributes !== b.attributes;
+/** What the ladder builder reads: the ladder, the teams' ids and names (outcome texts name them), the attribute keys. */
+const builderInputs = (d: Scenario) => JSON.stringify([d.teams.map((t) => [t.id, t.name]), d.attributes.map((a) => a.key)]);
+const inputsChanged = (a: Scenario, b: Scenario) => a.ladder !== b.ladder || builderInputs(a) !== builderInputs(b);
 
 /**
  * After any change: when what the tree is built from changed and there is a

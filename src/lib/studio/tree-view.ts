@@ -5,7 +5,10 @@
  */
 import { childEdges, type GameNode } from '../engine/model';
 
+/** Most nodes the canvas shows at once (it stays responsive up to here). */
 export const VISIBLE_LIMIT = 2_000;
+/** How many a large tree shows when it opens: a few levels, to unfold from. */
+export const OPENING_LIMIT = 200;
 
 export type ViewNode = {
   id: string;

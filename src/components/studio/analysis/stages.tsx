@@ -15,20 +15,21 @@ type AgreementResult = { gamma: number[]; curves: EwlCurve[]; equilibria?: EwlEq
 
 const STAGE_LIMIT = 60;
 
+/** Two-team stages, the shallowest first (the first ones play can reach), at most STAGE_LIMIT. */
 function stagesOf(game: Game): Stage[] {
   const index = indexGame(game);
-  const out: Stage[] = [];
+  const out: (Stage & { depth: number })[] = [];
   for (const node of index.nodes) {
-    if (node.kind !== 'decision' || out.length >= STAGE_LIMIT) continue;
+    if (node.kind !== 'decision') continue;
     const first = node.actions[0]?.next;
     if (first?.kind !== 'decision' || first.infoset === undefined) continue;
     const stage = simultaneousStage(game, node.id);
     if (!stage || stage.movers.length !== 2) continue;
     const labels: string[] = [];
     for (let link = index.parentOf.get(node); link; link = index.parentOf.get(link.parent)) labels.unshift(link.label);
-    out.push({ nodeId: node.id, label: labels.length ? labels.join(' › ') : 'at the start', movers: stage.movers as [StageMover, StageMover] });
+    out.push({ nodeId: node.id, label: labels.length ? labels.join(' › ') : 'at the start', movers: stage.movers as [StageMover, StageMover], depth: labels.length });
   }
-  return out;
+  return out.sort((a, b) => a.depth - b.depth).slice(0, STAGE_LIMIT);
 }
 
 function useStages(): Stage[] {

@@ -1,5 +1,5 @@
 /**
- * The game tree on a canvas: laid out by ELK in a worker, drawn by React Flow
+ * The game tree on a canvas: laid out as a tidy tree, drawn by React Flow
  * (only what is in view), with the equilibrium path highlighted. Branches
  * collapse and expand; the keyboard moves the selection along the tree.
  */
@@ -8,7 +8,7 @@ import '@xyflow/react/dist/base.css';
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent, type ReactNode } from 'react';
 import type { GameNode } from '../../../lib/engine/model';
 import { treeSvg } from '../../../lib/studio/tree-svg';
-import { initialCollapse, VISIBLE_LIMIT, visibleTree, type TreeView, type ViewNode } from '../../../lib/studio/tree-view';
+import { initialCollapse, OPENING_LIMIT, VISIBLE_LIMIT, visibleTree, type TreeView, type ViewNode } from '../../../lib/studio/tree-view';
 import { layoutTree, type Layout } from './layout';
 import { NODE_TYPES, type CanvasNode, type CanvasNodeData } from './nodes';
 import { downloadBlob, svgToPng } from '../download';
@@ -61,12 +61,9 @@ function nodeData(view: ViewNode, teams: CanvasTeam[], payoffs: Map<string, stri
 function Canvas(props: TreeCanvasProps) {
   const { root, teams, payoffs, path, edgeNotes, selectedId, onSelect, title } = props;
   const flow = useReactFlow();
-  const [collapsed, setCollapsed] = useState<Set<string>>(() => initialCollapse(root));
-  const [layout, setLayout] = useState<Layout | null>(null);
-  const [laying, setLaying] = useState(false);
+  const [collapsed, setCollapsed] = useState<Set<string>>(() => initialCollapse(root, OPENING_LIMIT));
   const [announcement, setAnnouncement] = useState('');
   const fitted = useRef(false);
-  const box = useRef<HTMLDivElement>(null);
 
   const view: TreeView = useMemo(() => {
     const shown = visibleTree(root, collapsed);
@@ -83,23 +80,14 @@ function Canvas(props: TreeCanvasProps) {
     });
   }, [path]);
 
-  useEffect(() => {
-    let current = true;
-    setLaying(true);
+  const layout: Layout = useMemo(() => {
     performance.mark('rungwise:layout-start');
-    layoutTree(view, teams.length).then((next) => {
-      if (!current) return;
-      performance.mark('rungwise:layout-end');
-      setLayout(next);
-      setLaying(false);
-    });
-    return () => {
-      current = false;
-    };
+    const laid = layoutTree(view, teams.length);
+    performance.mark('rungwise:layout-end');
+    return laid;
   }, [view, teams.length]);
 
   const baseNodes: CanvasNode[] = useMemo(() => {
-    if (!layout) return [];
     return view.nodes.flatMap((v) => {
       const b = layout.boxes.get(v.id);
       if (!b) return [];
@@ -110,7 +98,6 @@ function Canvas(props: TreeCanvasProps) {
   const nodes = useMemo(() => baseNodes.map((n) => (n.id === selectedId ? { ...n, selected: true } : n)), [baseNodes, selectedId]);
 
   const edges: Edge[] = useMemo(() => {
-    if (!layout) return [];
     return view.nodes.flatMap((v) => {
       if (v.parentId === null || !layout.boxes.has(v.id)) return [];
       const onPath = path.has(v.id) && path.has(v.parentId);
@@ -131,15 +118,21 @@ function Canvas(props: TreeCanvasProps) {
   }, [view, layout, path, edgeNotes]);
 
   useEffect(() => {
-    if (!layout || fitted.current) return;
+    if (fitted.current) return;
     fitted.current = true;
     requestAnimationFrame(() => {
-      const rootBox = layout.boxes.get(root.id);
-      if (view.nodes.length > 60 && rootBox) void flow.setCenter(rootBox.x + 300, rootBox.y, { zoom: 0.8 });
-      else void flow.fitView({ padding: 0.15 });
+      void flow.fitView({ padding: 0.1 });
       performance.mark('rungwise:canvas-shown');
     });
-  }, [layout, flow, root.id, view.nodes.length]);
+  }, [layout, flow]);
+
+  // When the equilibrium path first arrives, bring it into view.
+  const shownPath = useRef(false);
+  useEffect(() => {
+    if (shownPath.current || path.size === 0 || !layout.boxes.has([...path][path.size - 1]!)) return;
+    shownPath.current = true;
+    requestAnimationFrame(() => void flow.fitView({ nodes: [...path].map((id) => ({ id })), padding: 0.2, duration: 300, maxZoom: 1 }));
+  }, [path, layout, flow]);
 
   const toggle = useCallback((id: string) => {
     setCollapsed((was) => {
@@ -155,7 +148,7 @@ function Canvas(props: TreeCanvasProps) {
       onSelect(id);
       const v = view.byId.get(id);
       if (v) setAnnouncement(describe(v, teams));
-      const b = layout?.boxes.get(id);
+      const b = layout.boxes.get(id);
       if (b) void flow.setCenter(b.x + b.width / 2, b.y + b.height / 2, { zoom: flow.getZoom(), duration: 150 });
     },
     [onSelect, view, teams, layout, flow],
@@ -189,7 +182,7 @@ function Canvas(props: TreeCanvasProps) {
     else run();
   };
 
-  const exportSvg = () => (layout ? treeSvg({ view, boxes: layout.boxes, teamNames: new Map(teams.map((t) => [t.id, t.name])), payoffs, path, title }) : '');
+  const exportSvg = () => treeSvg({ view, boxes: layout.boxes, teamNames: new Map(teams.map((t) => [t.id, t.name])), payoffs, path, title });
   const fileBase = title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'scenario';
 
   return (
@@ -207,23 +200,22 @@ function Canvas(props: TreeCanvasProps) {
         <button type="button" className="btn-quiet py-1" disabled={!selectedId || !view.byId.get(selectedId)?.node || view.byId.get(selectedId)!.node.kind === 'terminal'} onClick={() => selectedId && toggle(selectedId)}>
           {selectedId && collapsed.has(selectedId) ? 'Expand branch' : 'Collapse branch'}
         </button>
-        <button type="button" className="btn-quiet py-1" onClick={() => setCollapsed(initialCollapse(root))}>
+        <button type="button" className="btn-quiet py-1" onClick={() => setCollapsed(initialCollapse(root, OPENING_LIMIT))}>
           Reset folding
         </button>
         <span className="mx-1 h-5 w-px bg-ink-200" aria-hidden="true" />
-        <button type="button" className="btn-quiet py-1" disabled={!layout} onClick={() => downloadBlob(new Blob([exportSvg()], { type: 'image/svg+xml' }), `${fileBase}-tree.svg`)}>
+        <button type="button" className="btn-quiet py-1" onClick={() => downloadBlob(new Blob([exportSvg()], { type: 'image/svg+xml' }), `${fileBase}-tree.svg`)}>
           Save SVG
         </button>
-        <button type="button" className="btn-quiet py-1" disabled={!layout} onClick={() => void svgToPng(exportSvg()).then((png) => downloadBlob(png, `${fileBase}-tree.png`))}>
+        <button type="button" className="btn-quiet py-1" onClick={() => void svgToPng(exportSvg()).then((png) => downloadBlob(png, `${fileBase}-tree.png`))}>
           Save PNG
         </button>
         {props.children}
         <span className="ml-auto text-xs text-ink-600" data-testid="tree-count">
-          {laying ? `Laying out ${view.nodes.length} nodes…` : `${view.nodes.length} of ${view.total} nodes shown`}
+          {view.nodes.length === view.total ? `${view.total} nodes` : `${view.nodes.length} of ${view.total} nodes shown`}
         </span>
       </div>
       <div
-        ref={box}
         className="relative min-h-0 flex-1 bg-paper focus:outline-none focus-visible:ring-3 focus-visible:ring-bronze-500"
         tabIndex={0}
         role="application"

@@ -294,10 +294,10 @@ function MoveRules({ ladder, update }: RulesProps) {
   const setMoves = (patch: Partial<LadderSpec['moves']>) => update('edit the move rules', (l) => ({ ...l, moves: { ...l.moves, ...patch } }));
   const others = teams.filter((t) => !parties.includes(t.id));
   return (
-    <div className="grid gap-4 xl:grid-cols-2">
+    <div className="space-y-4">
       <section className="panel space-y-3 p-4" aria-labelledby="ladder-rules">
         <h2 id="ladder-rules">Move rules</h2>
-        <div className="grid grid-cols-2 gap-3 sm:grid-cols-3">
+        <div className="grid max-w-3xl grid-cols-2 gap-3 sm:grid-cols-3">
           <NumField label="Rounds" showLabel value={ladder.rounds} integer min={1} max={8} readOnly={readOnly} onChange={(v) => update('set the rounds', (l) => ({ ...l, rounds: Number(v) }))} />
           <RungSelect label="The crisis starts at" value={ladder.start} rungs={ladder.rungs} disabled={readOnly} onChange={(start) => update('set the start rung', (l) => ({ ...l, start }))} />
           <NumField label="Climb up to (rungs a move)" showLabel value={ladder.moves.climbUpTo} integer min={1} max={8} readOnly={readOnly} onChange={(v) => setMoves({ climbUpTo: Number(v) })} />
@@ -370,10 +370,8 @@ function MoveRules({ ladder, update }: RulesProps) {
         <PartyValues title="What stepping down costs the team that steps down" field="stepDownCosts" ladder={ladder} update={update} disabled={!ladder.moves.stepDown} />
       </section>
 
-      <div className="space-y-4">
-        <ThirdParty ladder={ladder} update={update} />
-        <ChanceEvent ladder={ladder} update={update} />
-      </div>
+      <ThirdParty ladder={ladder} update={update} />
+      <ChanceEvent ladder={ladder} update={update} />
     </div>
   );
 }
@@ -383,7 +381,7 @@ function PartyValues({ title, field, ladder, update, disabled }: RulesProps & { 
   if (disabled || document.attributes.length === 0) return null;
   const values = ladder[field] ?? {};
   return (
-    <div>
+    <div className="overflow-x-auto">
       <p className="field-label">{title}</p>
       <table className="data-table">
         <thead>
@@ -424,6 +422,7 @@ function OptionRows<R extends Row>({ rows, kind, onChange, extra }: { rows: R[];
   const { document, readOnly } = useWorkbench();
   const set = (i: number, patch: Partial<R>) => onChange(rows.map((r, k) => (k === i ? { ...r, ...patch } : r)), `edit ${kind}`);
   return (
+    <div className="overflow-x-auto">
     <table className="data-table">
       <thead>
         <tr>
@@ -470,6 +469,7 @@ function OptionRows<R extends Row>({ rows, kind, onChange, extra }: { rows: R[];
         ))}
       </tbody>
     </table>
+    </div>
   );
 }
 

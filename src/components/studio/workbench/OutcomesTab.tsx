@@ -59,7 +59,9 @@ export function OutcomesTab() {
               {row.original.outcome || 'Outcome'}
             </button>
             {row.original.onPath && <span className="tag ml-2 bg-bronze-100 text-bronze-800">equilibrium outcome</span>}
-            <p className="text-xs text-ink-600">{row.original.path}</p>
+            <p className="max-w-md truncate text-xs text-ink-600" title={row.original.path}>
+              {row.original.path}
+            </p>
           </div>
         ),
       }),
@@ -74,8 +76,8 @@ export function OutcomesTab() {
               value={row.original.node.attributes?.[a.key]}
               className="w-20"
               readOnly={readOnly}
-              onChange={(value: Num) => edit('edit an outcome', { kind: 'attribute', nodeId: row.original.id, key: a.key, value })}
-              onClear={() => edit('edit an outcome', { kind: 'attribute', nodeId: row.original.id, key: a.key, value: null })}
+              onChange={(value: Num) => edit(`${a.key} at ${row.original.id}`, { kind: 'attribute', nodeId: row.original.id, key: a.key, value })}
+              onClear={() => edit(`${a.key} at ${row.original.id}`, { kind: 'attribute', nodeId: row.original.id, key: a.key, value: null })}
             />
           ),
         }),
@@ -91,8 +93,8 @@ export function OutcomesTab() {
               placeholder={String(row.original.payoffs[i] ?? '')}
               className="w-20"
               readOnly={readOnly}
-              onChange={(value: Num) => edit('set a payoff', { kind: 'payoff', nodeId: row.original.id, team: t.id, value })}
-              onClear={() => edit('clear a payoff', { kind: 'payoff', nodeId: row.original.id, team: t.id, value: null })}
+              onChange={(value: Num) => edit(`payoff of ${t.id} at ${row.original.id}`, { kind: 'payoff', nodeId: row.original.id, team: t.id, value })}
+              onClear={() => edit(`payoff of ${t.id} at ${row.original.id}`, { kind: 'payoff', nodeId: row.original.id, team: t.id, value: null })}
             />
           ),
         }),
@@ -111,7 +113,7 @@ export function OutcomesTab() {
     getSortedRowModel: getSortedRowModel(),
     getFilteredRowModel: getFilteredRowModel(),
     getPaginationRowModel: getPaginationRowModel(),
-    initialState: { pagination: { pageSize: 50 } },
+    initialState: { pagination: { pageSize: 25 } },
     getRowId: (row) => row.id,
     autoResetPageIndex: false,
   });

@@ -313,8 +313,8 @@ function TerminalEditor({ node, edit }: { node: Extract<GameNode, { kind: 'termi
                   label={`Payoff of ${t.name} set by hand`}
                   value={node.payoffs?.[t.id]}
                   className="w-20"
-                  onChange={(value) => edit('set a payoff', { kind: 'payoff', nodeId: node.id, team: t.id, value })}
-                  onClear={() => edit('clear a payoff', { kind: 'payoff', nodeId: node.id, team: t.id, value: null })}
+                  onChange={(value) => edit(`payoff of ${t.id} at ${node.id}`, { kind: 'payoff', nodeId: node.id, team: t.id, value })}
+                  onClear={() => edit(`payoff of ${t.id} at ${node.id}`, { kind: 'payoff', nodeId: node.id, team: t.id, value: null })}
                 />
               </td>
             </tr>
@@ -330,8 +330,8 @@ function TerminalEditor({ node, edit }: { node: Extract<GameNode, { kind: 'termi
               showLabel
               label={`${a.label}${a.unit ? ` (${a.unit})` : ''}`}
               value={node.attributes?.[a.key]}
-              onChange={(value) => edit('set an attribute', { kind: 'attribute', nodeId: node.id, key: a.key, value })}
-              onClear={() => edit('clear an attribute', { kind: 'attribute', nodeId: node.id, key: a.key, value: null })}
+              onChange={(value) => edit(`${a.key} at ${node.id}`, { kind: 'attribute', nodeId: node.id, key: a.key, value })}
+              onClear={() => edit(`${a.key} at ${node.id}`, { kind: 'attribute', nodeId: node.id, key: a.key, value: null })}
             />
           ))}
         </div>
