@@ -4,14 +4,14 @@
  * equilibrium play from each deviation would have led. A small tidy layout:
  * depth left to right, leaves top to bottom, parents centred on their children.
  */
-import { Handle, Position, ReactFlow, type Edge, type Node, type NodeProps } from '@xyflow/react';
+import { Controls, Handle, Position, ReactFlow, type Edge, type Node, type NodeProps } from '@xyflow/react';
 import '@xyflow/react/dist/base.css';
 import { useMemo } from 'react';
 import type { PathTree as Tree, TeamRef } from '../../lib/review/types';
 import { ACTUAL_COLOUR, EQUILIBRIUM_COLOUR } from '../../lib/report/render/chart';
 
-const COLUMN = 230;
-const ROW = 96;
+const COLUMN = 250;
+const ROW = 112;
 const COUNTERFACTUAL = '#2f4f73';
 
 type TreeNodeData = { title: string; kind: Tree['nodes'][number]['kind']; lines: string[]; onActual: boolean };
@@ -60,6 +60,8 @@ function edgeStyle(edge: Tree['edges'][number]) {
 }
 
 export function PathTree({ tree, teams }: { tree: Tree; teams: TeamRef[] }) {
+  const leaves = tree.nodes.filter((n) => !tree.edges.some((e) => e.from === n.id)).length;
+  const height = Math.min(560, Math.max(260, leaves * ROW * 0.85 + 80));
   const { nodes, edges } = useMemo(() => {
     const positions = layout(tree);
     const onActual = new Set(tree.edges.filter((e) => e.actual).flatMap((e) => [e.from, e.to]));
@@ -83,14 +85,24 @@ export function PathTree({ tree, teams }: { tree: Tree; teams: TeamRef[] }) {
     }));
     return { nodes, edges };
   }, [tree, teams]);
-  const leaves = tree.nodes.filter((n) => !tree.edges.some((e) => e.from === n.id)).length;
-  const height = Math.min(560, Math.max(220, leaves * ROW + 60));
   return (
     <div>
       <div className="rounded-md border border-ink-200 bg-paper-deep" style={{ height }} data-testid="path-tree">
-        <ReactFlow nodes={nodes} edges={edges} nodeTypes={NODE_TYPES} fitView fitViewOptions={{ padding: 0.12 }} nodesDraggable={false} nodesConnectable={false} proOptions={{ hideAttribution: true }} minZoom={0.2} />
+        <ReactFlow
+          nodes={nodes}
+          edges={edges}
+          nodeTypes={NODE_TYPES}
+          defaultViewport={{ x: 24, y: height / 2 - (nodes[0]?.position.y ?? 0) * 0.85 - 30, zoom: 0.85 }}
+          nodesDraggable={false}
+          nodesConnectable={false}
+          proOptions={{ hideAttribution: true }}
+          minZoom={0.2}
+        >
+          <Controls showInteractive={false} position="top-right" />
+        </ReactFlow>
       </div>
       <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink-700" aria-label="Legend">
+        <li className="text-ink-500">Drag to follow the lines; the buttons zoom and fit the whole tree.</li>
         <li className="flex items-center gap-2"><span className="inline-block h-1 w-6 rounded" style={{ background: ACTUAL_COLOUR }} /> Played</li>
         <li className="flex items-center gap-2"><span className="inline-block w-6 border-t-2 border-dashed" style={{ borderColor: EQUILIBRIUM_COLOUR }} /> Subgame-perfect</li>
         <li className="flex items-center gap-2"><span className="inline-block w-6 border-t-2 border-dotted" style={{ borderColor: COUNTERFACTUAL }} /> Equilibrium play from a deviation</li>

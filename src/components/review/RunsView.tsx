@@ -4,7 +4,7 @@
  * the equilibrium outcome. Each table downloads as CSV.
  */
 import { useQuery } from '@tanstack/react-query';
-import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { Bar, BarChart, CartesianGrid, Cell, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { api, describeError } from '../../lib/client/api';
 import type { ScenarioRuns } from '../../lib/report/runs';
 import { ACTUAL_COLOUR, TEAM_COLOURS } from '../../lib/report/render/chart';
@@ -13,6 +13,8 @@ import { withQueryClient } from '../ui/QueryRoot';
 import { fixed, percent } from './format';
 
 const AXIS = { fontSize: 12, fill: '#34414f' };
+/** Outcomes that are some run's subgame-perfect outcome. */
+const EQUILIBRIUM_OUTCOME = '#3a7150';
 
 function Panel({ title, csv, children }: { title: string; csv: string; children: React.ReactNode }) {
   return (
@@ -41,6 +43,8 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
       </div>
     );
   }
+  const teamName = (id: unknown) => overview.teams.find((t) => t.id === id)?.name ?? String(id);
+  const teamOrder = (item: { dataKey?: unknown }) => overview.teams.findIndex((t) => t.id === item.dataKey);
   const lambdaRows = overview.runs.map((r) => ({ title: r.title, ...Object.fromEntries(overview.teams.map((t) => [t.id, r.lambdas[t.id] ?? null])) }));
   return (
     <div className="space-y-5">
@@ -54,7 +58,7 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
                 <XAxis type="number" allowDecimals={false} tick={AXIS} />
                 <YAxis type="category" dataKey="name" width={150} tick={AXIS} />
                 <Tooltip formatter={(v, id) => [String(v), overview.teams.find((t) => t.id === id)?.name ?? String(id)]} />
-                <Legend formatter={(id) => overview.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
+                <Legend itemSorter={teamOrder} formatter={teamName} wrapperStyle={{ fontSize: 13 }} />
                 {overview.teams.map((t, i) => (
                   <Bar key={t.id} dataKey={t.id} stackId="rung" fill={TEAM_COLOURS[i % TEAM_COLOURS.length]} isAnimationActive={false} />
                 ))}
@@ -70,7 +74,11 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
                 <XAxis type="number" allowDecimals={false} tick={AXIS} />
                 <YAxis type="category" dataKey="name" width={190} tick={AXIS} />
                 <Tooltip />
-                <Bar dataKey="runs" name="Runs" fill={ACTUAL_COLOUR} isAnimationActive={false} />
+                <Bar dataKey="runs" name="Runs" isAnimationActive={false}>
+                  {overview.outcomes.map((o) => (
+                    <Cell key={o.outcome} fill={o.equilibrium ? EQUILIBRIUM_OUTCOME : ACTUAL_COLOUR} />
+                  ))}
+                </Bar>
               </BarChart>
             </ResponsiveContainer>
           </div>
@@ -82,9 +90,9 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
             <BarChart data={lambdaRows} margin={{ left: 8, right: 16 }}>
               <CartesianGrid vertical={false} stroke="#d6dce2" />
               <XAxis dataKey="title" tick={AXIS} />
-              <YAxis tick={AXIS} label={{ value: 'lambda', angle: -90, position: 'insideLeft', fontSize: 12 }} />
-              <Tooltip formatter={(v, id) => [fixed(Number(v)), overview.teams.find((t) => t.id === id)?.name ?? String(id)]} />
-              <Legend formatter={(id) => overview.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
+              <YAxis tick={AXIS} scale="sqrt" domain={[0, 'auto']} label={{ value: 'lambda (square-root scale)', angle: -90, position: 'insideLeft', fontSize: 12, dy: 70 }} />
+              <Tooltip formatter={(v, id) => [fixed(Number(v)), teamName(id)]} />
+              <Legend itemSorter={teamOrder} formatter={teamName} wrapperStyle={{ fontSize: 13 }} />
               {overview.teams.map((t, i) => (
                 <Bar key={t.id} dataKey={t.id} fill={TEAM_COLOURS[i % TEAM_COLOURS.length]} isAnimationActive={false} maxBarSize={40} />
               ))}

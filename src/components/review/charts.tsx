@@ -4,7 +4,7 @@
  */
 import { Bar, BarChart, CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { EscalationSpec, RegretSpec } from '../../lib/report/figures';
-import { ACTUAL_COLOUR, EQUILIBRIUM_COLOUR, TEAM_COLOURS } from '../../lib/report/render/chart';
+import { ACTUAL_COLOUR, EQUILIBRIUM_COLOUR, niceTicks, TEAM_COLOURS } from '../../lib/report/render/chart';
 
 const AXIS = { fontSize: 12, fill: '#34414f' };
 const GRID = '#d6dce2';
@@ -27,7 +27,7 @@ export function EscalationChart({ spec, height = 280 }: { spec: Pick<EscalationS
             formatter={(value, name) => [nameAt.get(Number(value)) ?? String(value), name === 'actual' ? 'Actual play' : 'Subgame-perfect path']}
             labelFormatter={(turn) => `Turn ${turn}`}
           />
-          <Legend formatter={(name) => (name === 'actual' ? 'Actual play' : 'Subgame-perfect path')} wrapperStyle={{ fontSize: 13 }} />
+          <Legend verticalAlign="top" align="right" height={28} formatter={(name) => (name === 'actual' ? 'Actual play' : 'Subgame-perfect path')} wrapperStyle={{ fontSize: 13 }} />
           <Line type="linear" dataKey="equilibrium" stroke={EQUILIBRIUM_COLOUR} strokeWidth={2} strokeDasharray="6 4" dot={{ r: 3, fill: '#fff' }} isAnimationActive={false} />
           <Line type="linear" dataKey="actual" stroke={ACTUAL_COLOUR} strokeWidth={2.5} dot={{ r: 4, fill: ACTUAL_COLOUR }} isAnimationActive={false} />
         </LineChart>
@@ -42,18 +42,21 @@ export function RegretChart({ spec, height = 260 }: { spec: Pick<RegretSpec, 'te
     const here = spec.points.filter((p) => p.turn === k + 1);
     return { turn: k + 1, move: here.map((p) => p.label).join(', '), ...Object.fromEntries(here.map((p) => [p.teamId, p.regret])) };
   });
+  const values = spec.points.map((p) => p.regret);
+  const ticks = niceTicks(Math.min(0, ...values), Math.max(0, ...values, 1e-9));
+  const teamIndex = (id: unknown) => spec.teams.findIndex((t) => t.id === id);
   return (
     <div role="img" aria-label="Regret by turn: the continuation value each move gave up" data-chart="regret">
       <ResponsiveContainer width="100%" height={height}>
         <BarChart data={rows} margin={{ top: 8, right: 16, bottom: 4, left: 8 }}>
           <CartesianGrid stroke={GRID} vertical={false} />
           <XAxis dataKey="turn" tick={AXIS} label={{ value: 'Turn', position: 'insideBottom', offset: -2, fontSize: 12 }} height={36} />
-          <YAxis tick={AXIS} width={56} label={{ value: 'Regret', angle: -90, position: 'insideLeft', fontSize: 12 }} />
+          <YAxis tick={AXIS} width={56} ticks={ticks} domain={[ticks[0]!, ticks.at(-1)!]} label={{ value: 'Regret', angle: -90, position: 'insideLeft', fontSize: 12 }} />
           <Tooltip
             formatter={(value, name) => [Number(value).toFixed(2), spec.teams.find((t) => t.id === name)?.name ?? String(name)]}
             labelFormatter={(turn) => `Turn ${turn}: ${rows[Number(turn) - 1]?.move ?? ''}`}
           />
-          <Legend formatter={(id) => spec.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
+          <Legend verticalAlign="top" align="right" height={28} itemSorter={(item) => teamIndex(item.dataKey)} formatter={(id) => spec.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
           {spec.teams.map((team, i) => (
             <Bar key={team.id} dataKey={team.id} fill={TEAM_COLOURS[i % TEAM_COLOURS.length]} isAnimationActive={false} maxBarSize={34} />
           ))}

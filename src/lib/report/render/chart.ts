@@ -106,7 +106,8 @@ function escalation(spec: EscalationSpec, width: number, height: number): Drawin
   return { width, height, title: spec.title, shapes };
 }
 
-function niceTicks(low: number, high: number): number[] {
+/** About four round tick values covering low..high (steps of 1, 2, 2.5 or 5 times a power of ten). */
+export function niceTicks(low: number, high: number): number[] {
   const span = high - low || 1;
   const raw = span / 4;
   const power = 10 ** Math.floor(Math.log10(raw));
