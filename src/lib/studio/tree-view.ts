@@ -6,7 +6,7 @@
 import { childEdges, type GameNode } from '../engine/model';
 
 /** Most nodes the canvas shows at once (it stays responsive up to here). */
-export const VISIBLE_LIMIT = 2_000;
+export const VISIBLE_LIMIT = 2_500;
 /** How many a large tree shows when it opens: a few levels, to unfold from. */
 export const OPENING_LIMIT = 200;
 

@@ -96,6 +96,10 @@ function Canvas(props: TreeCanvasProps) {
   }, [view, layout, teams, payoffs, path]);
 
   const nodes = useMemo(() => baseNodes.map((n) => (n.id === selectedId ? { ...n, selected: true } : n)), [baseNodes, selectedId]);
+  // For the benchmark: when a new set of nodes has been painted.
+  useEffect(() => {
+    requestAnimationFrame(() => performance.mark('rungwise:canvas-painted', { detail: baseNodes.length }));
+  }, [baseNodes]);
 
   const edges: Edge[] = useMemo(() => {
     return view.nodes.flatMap((v) => {
@@ -200,8 +204,11 @@ function Canvas(props: TreeCanvasProps) {
         <button type="button" className="btn-quiet py-1" disabled={!selectedId || !view.byId.get(selectedId)?.node || view.byId.get(selectedId)!.node.kind === 'terminal'} onClick={() => selectedId && toggle(selectedId)}>
           {selectedId && collapsed.has(selectedId) ? 'Expand branch' : 'Collapse branch'}
         </button>
+        <button type="button" className="btn-quiet py-1" onClick={() => setCollapsed(initialCollapse(root, VISIBLE_LIMIT))}>
+          {view.total > VISIBLE_LIMIT ? `Unfold up to ${VISIBLE_LIMIT.toLocaleString('en-GB')}` : 'Unfold all'}
+        </button>
         <button type="button" className="btn-quiet py-1" onClick={() => setCollapsed(initialCollapse(root, OPENING_LIMIT))}>
-          Reset folding
+          Fold back
         </button>
         <span className="mx-1 h-5 w-px bg-ink-200" aria-hidden="true" />
         <button type="button" className="btn-quiet py-1" onClick={() => downloadBlob(new Blob([exportSvg()], { type: 'image/svg+xml' }), `${fileBase}-tree.svg`)}>
