@@ -36,47 +36,58 @@ export interface FlatSolution {
 
 /** The float kernel: one bottom-up pass over the flat arrays. */
 export function solveFlat(flat: FlatGame): FlatSolution {
-  const { teams, size, mover, childStart, aux, payoff, prob } = flat;
-  const value = new Float64Array(size * teams);
-  const choice = new Uint16Array(size).fill(NO_CHOICE);
+  const value = new Float64Array(flat.size * flat.teams);
+  const choice = new Uint16Array(flat.size).fill(NO_CHOICE);
   let ties = 0;
-  for (let i = size - 1; i >= 0; i--) {
-    const m = mover[i]!;
-    const row = i * teams;
-    if (m === TERMINAL) {
-      const src = aux[i]! * teams;
-      for (let t = 0; t < teams; t++) value[row + t] = payoff[src + t]!;
-    } else if (m === CHANCE) {
-      const first = childStart[i]!;
-      const end = childStart[i + 1]!;
-      const p0 = aux[i]! - first;
-      for (let t = 0; t < teams; t++) {
-        let sum = 0;
-        for (let c = first; c < end; c++) sum += prob[p0 + c]! * value[c * teams + t]!;
-        value[row + t] = sum;
-      }
-    } else {
-      const first = childStart[i]!;
-      const end = childStart[i + 1]!;
-      let best = first;
-      let bestValue = value[first * teams + m]!;
-      let tied = false;
-      for (let c = first + 1; c < end; c++) {
-        const v = value[c * teams + m]!;
-        const order = floatCmp(v, bestValue);
-        if (order > 0) {
-          best = c;
-          bestValue = v;
-          tied = false;
-        } else if (order === 0) tied = true;
-      }
-      if (tied) ties++;
-      choice[i] = best - first;
-      const src = best * teams;
-      for (let t = 0; t < teams; t++) value[row + t] = value[src + t]!;
-    }
-  }
+  for (let i = flat.size - 1; i >= 0; i--) if (solveNode(flat, i, value, choice)) ties++;
   return { value, choice, ties };
+}
+
+/**
+ * Re-solve the given nodes (descending indices: children first) after payoffs below them
+ * changed, updating a solution in place. Used to re-solve only the ancestors of altered terminals.
+ */
+export function resolveNodes(flat: FlatGame, nodes: ArrayLike<number>, solution: FlatSolution) {
+  for (let n = 0; n < nodes.length; n++) solveNode(flat, nodes[n]!, solution.value, solution.choice);
+}
+
+/** Backward induction at one node whose children are solved; true when the mover's best value is tied. */
+function solveNode(flat: FlatGame, i: number, value: Float64Array, choice: Uint16Array): boolean {
+  const { teams, mover, childStart, aux, payoff, prob } = flat;
+  const m = mover[i]!;
+  const row = i * teams;
+  if (m === TERMINAL) {
+    const src = aux[i]! * teams;
+    for (let t = 0; t < teams; t++) value[row + t] = payoff[src + t]!;
+    return false;
+  }
+  const first = childStart[i]!;
+  const end = childStart[i + 1]!;
+  if (m === CHANCE) {
+    const p0 = aux[i]! - first;
+    for (let t = 0; t < teams; t++) {
+      let sum = 0;
+      for (let c = first; c < end; c++) sum += prob[p0 + c]! * value[c * teams + t]!;
+      value[row + t] = sum;
+    }
+    return false;
+  }
+  let best = first;
+  let bestValue = value[first * teams + m]!;
+  let tied = false;
+  for (let c = first + 1; c < end; c++) {
+    const v = value[c * teams + m]!;
+    const order = floatCmp(v, bestValue);
+    if (order > 0) {
+      best = c;
+      bestValue = v;
+      tied = false;
+    } else if (order === 0) tied = true;
+  }
+  choice[i] = best - first;
+  const src = best * teams;
+  for (let t = 0; t < teams; t++) value[row + t] = value[src + t]!;
+  return tied;
 }
 
 /**

@@ -5,12 +5,12 @@
  * samples in which it is the equilibrium outcome (averaging reach probabilities when
  * equilibrium play is mixed or passes chance nodes).
  */
-import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, sourceOf, type FlatGame } from '../compile';
+import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, parentsOf, sourceOf, type FlatGame } from '../compile';
 import type { Game } from '../model';
 import { floatField, toFloat, type Num } from '../numbers';
 import { mulberry32, type Rng } from '../rng';
 import { pathTo } from '../tree';
-import { solveFlat } from './backward-induction';
+import { resolveNodes, solveFlat } from './backward-induction';
 import type { Progress } from './qre';
 import { RollUpSession } from './subgame-perfect';
 
@@ -70,12 +70,10 @@ export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarl
   });
   const rng = mulberry32(options.seed);
   const share = new Float64Array(flat.size);
-  const reach = new Float64Array(flat.size);
   const every = Math.max(1, Math.min(50, Math.floor(options.samples / 100)));
   const solveSample = isPerfectInformation(flat) ? perfectSampler(flat, targets) : rollUpSampler(flat, targets);
   for (let s = 0; s < options.samples; s++) {
-    solveSample(ranges.map((r) => sampleDistribution(r.distribution, rng)), reach);
-    for (let i = 0; i < flat.size; i++) if (flat.mover[i] === TERMINAL) share[i]! += reach[i]!;
+    solveSample(ranges.map((r) => sampleDistribution(r.distribution, rng)), share);
     if (s % every === every - 1) options.progress?.((s + 1) / options.samples, 'Monte Carlo samples');
   }
   const outcomes: OutcomeShare[] = [];
@@ -94,25 +92,53 @@ export function monteCarlo(game: Game, ranges: PayoffRange[], options: MonteCarl
 }
 
 type Target = { terminal: number; team: number };
-type Sampler = (values: number[], reach: Float64Array) => void;
+/** Solves one sample and adds the reach probability of every terminal equilibrium play ends in to `share`. */
+type Sampler = (values: number[], share: Float64Array) => void;
 
-/** Perfect information: the float kernel on a copy of the payoffs. */
+/**
+ * Perfect information: the float kernel once, then per sample only the ancestors of the
+ * sampled terminals are re-solved (nothing else can change).
+ */
 function perfectSampler(flat: FlatGame, targets: Target[]): Sampler {
   const payoff = flat.payoff.slice();
   const sampled: FlatGame = { ...flat, payoff };
-  return (values, reach) => {
+  const solution = solveFlat(sampled);
+  const parent = parentsOf(flat);
+  const affected = new Set<number>();
+  for (const { terminal } of targets) for (let x = terminal; x >= 0; x = parent[x]!) affected.add(x);
+  const order = Int32Array.from([...affected].sort((a, b) => b - a));
+  return (values, share) => {
     targets.forEach((t, k) => (payoff[flat.aux[t.terminal]! * flat.teams + t.team] = values[k]!));
-    reachOfChoices(sampled, solveFlat(sampled).choice, reach);
+    resolveNodes(sampled, order, solution);
+    addPlay(flat, (i, k) => (k === solution.choice[i] ? 1 : 0), share);
   };
 }
 
 /** Imperfect information: one live roll-up; each sample re-solves only the subgames above the sampled terminals. */
 function rollUpSampler(flat: FlatGame, targets: Target[]): Sampler {
   const session = new RollUpSession(flat, floatField, { payoff: Array.from(flat.payoff), prob: Array.from(flat.prob) });
-  return (values, reach) => {
+  return (values, share) => {
     session.setPayoffs(targets.map((t, k) => ({ ...t, value: values[k]! })));
-    reachOfBehaviour(flat, session.behaviour(), reach);
+    const behaviour = session.behaviour();
+    addPlay(flat, (i, k) => behaviour[flat.aux[i]!]![k]!, share);
   };
+}
+
+/** Walk the nodes equilibrium play reaches (choice(i, k): probability of action k at decision i), adding terminal reach to `share`. */
+function addPlay(flat: FlatGame, choice: (node: number, action: number) => number, share: Float64Array) {
+  const stack: [number, number][] = [[0, 1]];
+  while (stack.length > 0) {
+    const [i, reach] = stack.pop()!;
+    if (flat.mover[i] === TERMINAL) {
+      share[i]! += reach;
+      continue;
+    }
+    const first = flat.childStart[i]!;
+    for (let c = first; c < flat.childStart[i + 1]!; c++) {
+      const w = flat.mover[i] === CHANCE ? flat.prob[flat.aux[i]! + c - first]! : choice(i, c - first);
+      if (w > 0) stack.push([c, reach * w]);
+    }
+  }
 }
 
 function checkDistribution(range: PayoffRange) {
@@ -124,31 +150,5 @@ function checkDistribution(range: PayoffRange) {
   if (d.kind === 'triangular') {
     const mode = toFloat(d.mode);
     if (!(low <= mode && mode <= high)) throw new Error(`${where}: the mode must lie between low and high`);
-  }
-}
-
-function reachOfChoices(flat: FlatGame, choice: Uint16Array, reach: Float64Array) {
-  reach.fill(0);
-  reach[0] = 1;
-  for (let i = 0; i < flat.size; i++) {
-    const r = reach[i]!;
-    if (r === 0 || flat.mover[i] === TERMINAL) continue;
-    const first = flat.childStart[i]!;
-    if (flat.mover[i] === CHANCE) {
-      for (let c = first; c < flat.childStart[i + 1]!; c++) reach[c] = r * flat.prob[flat.aux[i]! + c - first]!;
-    } else reach[first + choice[i]!] = r;
-  }
-}
-
-function reachOfBehaviour(flat: FlatGame, behaviour: number[][], reach: Float64Array) {
-  reach.fill(0);
-  reach[0] = 1;
-  for (let i = 0; i < flat.size; i++) {
-    const r = reach[i]!;
-    if (r === 0 || flat.mover[i] === TERMINAL) continue;
-    const first = flat.childStart[i]!;
-    for (let c = first; c < flat.childStart[i + 1]!; c++) {
-      reach[c] = r * (flat.mover[i] === CHANCE ? flat.prob[flat.aux[i]! + c - first]! : behaviour[flat.aux[i]!]![c - first]!);
-    }
   }
 }

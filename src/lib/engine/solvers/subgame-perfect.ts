@@ -181,6 +181,8 @@ export class RollUpSession<T> {
   private readonly solvers = new Map<number, PartSolver<T>>();
   private readonly parent: Int32Array;
   private readonly roots: Uint8Array;
+  /** The behaviour of the current first equilibrium, kept up to date part by part. */
+  private readonly live: Behaviour<T>;
 
   constructor(
     private readonly flat: FlatGame,
@@ -199,6 +201,13 @@ export class RollUpSession<T> {
         this.parts[i] = { leaves, entries: solver.list(1) };
       }
     }
+    this.live = materialize(flat, this.parts, 0);
+  }
+
+  private resolve(root: number) {
+    const entries = this.solvers.get(root)!.list(1);
+    this.parts[root]!.entries = entries;
+    for (const [infoset, probs] of entries[0]!.profile) this.live[infoset] = probs;
   }
 
   /** Roots of the proper subgames containing node i, innermost first. */
@@ -221,7 +230,7 @@ export class RollUpSession<T> {
   setPayoff(terminal: number, team: number, value: T, chain = this.chainAbove(terminal)) {
     this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
     this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
-    for (const root of chain) this.parts[root]!.entries = this.solvers.get(root)!.list(1);
+    for (const root of chain) this.resolve(root);
   }
 
   /** Set several payoffs, then re-solve every part above any of them, bottom-up. */
@@ -233,7 +242,7 @@ export class RollUpSession<T> {
       for (const root of this.chainAbove(terminal)) roots.add(root);
     }
     // Children have larger flat indices than their parents: descending order is bottom-up.
-    for (const root of [...roots].sort((a, b) => b - a)) this.parts[root]!.entries = this.solvers.get(root)!.list(1);
+    for (const root of [...roots].sort((a, b) => b - a)) this.resolve(root);
   }
 
   /** What equilibrium play does along a chain: the supports of the reached information sets of its parts. */
@@ -251,8 +260,9 @@ export class RollUpSession<T> {
     return pieces.join('|');
   }
 
+  /** The current equilibrium's behaviour: a live view, updated by setPayoff(s); do not modify it. */
   behaviour(): Behaviour<T> {
-    return materialize(this.flat, this.parts, 0);
+    return this.live;
   }
 
   rootValue(): T[] {
