@@ -13,13 +13,13 @@ export interface Summary<T> {
   truncated?: boolean;
 }
 
-export const SUMMARY_CAP = 1024;
+const SUMMARY_CAP = 1024;
 
 export function singleSummary<T>(value: T[]): Summary<T> {
   return { values: [value], counts: [1] };
 }
 
-export function sameVector<T>(field: Field<T>, a: T[], b: T[]): boolean {
+function sameVector<T>(field: Field<T>, a: T[], b: T[]): boolean {
   return a.every((v, t) => field.cmp(v, b[t]!) === 0);
 }
 

@@ -119,7 +119,3 @@ export const exactField: Field<Fraction> = {
   toNumber: (a) => a.valueOf(),
   format: formatExact,
 };
-
-export function fieldFor(exact: boolean): Field<number> | Field<Fraction> {
-  return exact ? exactField : floatField;
-}

@@ -73,7 +73,7 @@ function argmax<T>(field: Field<T>, weights: readonly T[]): number {
  * The play followed for display: at a decision node the most probable action, at a
  * chance node the outcome given in `draws` (node id to label) or else the most probable.
  */
-export function playPath<T>(flat: FlatGame, field: Field<T>, behaviour: Behaviour<T>, draws: Record<string, string> = {}) {
+function playPath<T>(flat: FlatGame, field: Field<T>, behaviour: Behaviour<T>, draws: Record<string, string> = {}) {
   const source = sourceOf(flat);
   const { prob } = numbersOf(flat, field);
   const nodes: number[] = [0];

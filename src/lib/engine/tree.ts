@@ -66,15 +66,6 @@ export function parentOf(game: Game, id: string): GameNode | undefined {
   return node ? indexGame(game).parentOf.get(node)?.parent : undefined;
 }
 
-/** Nodes from the root down to `node`, the root first. */
-export function ancestry(index: TreeIndex, node: GameNode): GameNode[] {
-  const line: GameNode[] = [node];
-  for (let link = index.parentOf.get(node); link; link = index.parentOf.get(link.parent)) {
-    line.push(link.parent);
-  }
-  return line.reverse();
-}
-
 /** Labels of the edges from the root to `node` (empty for the root). */
 export function edgeLabels(index: TreeIndex, node: GameNode): string[] {
   const labels: string[] = [];

@@ -80,7 +80,7 @@ export function ewlOutcome(game: TwoByTwo, gamma: number, a: EwlStrategy, b: Ewl
 }
 
 /** The strategy grid: theta and phi in steps of pi/(2*resolution); at theta = pi, where phi has no effect, only phi = 0. */
-export function strategyGrid(resolution: number): EwlStrategy[] {
+function strategyGrid(resolution: number): EwlStrategy[] {
   const out: EwlStrategy[] = [];
   for (let i = 0; i <= 2 * resolution; i++) {
     const phis = i === 2 * resolution ? 0 : resolution;
@@ -152,7 +152,7 @@ export interface EwlCurve {
   equilibrium: boolean[];
 }
 
-export const NAMED_PROFILES: [string, EwlStrategy, EwlStrategy][] = [
+const NAMED_PROFILES: [string, EwlStrategy, EwlStrategy][] = [
   ['C,C', EWL_C, EWL_C],
   ['D,D', EWL_D, EWL_D],
   ['Q,Q', EWL_Q, EWL_Q],

@@ -400,7 +400,7 @@ export interface QreResult {
   steps: number;
 }
 
-export function teamLambdas(game: Game, lambda: number | Record<string, number>): Float64Array {
+function teamLambdas(game: Game, lambda: number | Record<string, number>): Float64Array {
   return Float64Array.from(game.teams, (team) => {
     const value = typeof lambda === 'number' ? lambda : lambda[team.id];
     if (value === undefined) throw new Error(`no lambda given for team "${team.id}"`);

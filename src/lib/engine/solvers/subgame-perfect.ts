@@ -77,7 +77,7 @@ export function solveSubgamePerfect(game: Game, options: SubgamePerfectOptions =
 }
 
 function report<T>(flat: FlatGame, field: Field<T>, maxListed: number): SubgamePerfectResult {
-  const roll = rollUp(flat, field, numbersOf(flat, field), { maxListed, count: true });
+  const roll = rollUp(flat, field, numbersOf(flat, field), maxListed);
   const used = Object.entries(roll.stages)
     .filter(([, n]) => n > 0)
     .map(([kind, n]) => `${STAGE_NAMES[kind as keyof StageCounts]} ${n}`)
@@ -115,7 +115,7 @@ interface Part<T> {
   entries: Entry<T>[];
 }
 
-export interface RollUp<T> {
+interface RollUp<T> {
   behaviours: Behaviour<T>[];
   rootValues: T[][];
   count: number;
@@ -128,15 +128,10 @@ export interface RollUp<T> {
 const COMBINATION_CAP = 256;
 
 /**
- * The roll-up over a flat game with the given payoffs and probabilities (so that Monte
- * Carlo and sensitivity analysis can re-run it on altered numbers).
+ * The roll-up over a flat game: every proper subgame bottom-up, its equilibria listed
+ * (the first K) and counted.
  */
-export function rollUp<T>(
-  flat: FlatGame,
-  field: Field<T>,
-  numbers: { payoff: T[]; prob: T[] },
-  options: { maxListed: number; count: boolean },
-): RollUp<T> {
+function rollUp<T>(flat: FlatGame, field: Field<T>, numbers: { payoff: T[]; prob: T[] }, maxListed: number): RollUp<T> {
   const roots = properSubgameRoots(flat);
   const parts: Part<T>[] = new Array(flat.size);
   const stages: StageCounts = { decision: 0, chance: 0, simultaneous: 0, sequenceForm: 0, pure: 0 };
@@ -145,15 +140,14 @@ export function rollUp<T>(
   for (let i = flat.size - 1; i >= 0; i--) {
     if (flat.mover[i] === TERMINAL) {
       const part = terminalPart(flat, numbers.payoff, i);
-      if (options.count) part.summary = singleSummary(part.entries[0]!.value);
+      part.summary = singleSummary(part.entries[0]!.value);
       parts[i] = part;
       continue;
     }
     if (!roots[i]) continue;
     const { game, leaves } = reducedGame(flat, numbers.prob, roots, i);
     const solver = new PartSolver(field, game, leaves, parts);
-    const part: Part<T> = { leaves, entries: solver.list(options.maxListed) };
-    if (options.count) part.summary = solver.count();
+    const part: Part<T> = { leaves, entries: solver.list(maxListed), summary: solver.count() };
     stages[solver.kind]++;
     complete &&= solver.complete;
     continua ||= solver.degenerate;
@@ -161,12 +155,12 @@ export function rollUp<T>(
   }
   const top = parts[0]!;
   const behaviours = top.entries.map((_, j) => materialize(flat, parts, j));
-  const count = top.summary ? summaryTotal(top.summary) : top.entries.length;
+  const count = summaryTotal(top.summary!);
   return {
     behaviours,
     rootValues: top.entries.map((e) => e.value),
     count,
-    countExact: options.count && complete && !top.summary!.truncated && Number.isSafeInteger(count),
+    countExact: complete && !top.summary!.truncated && Number.isSafeInteger(count),
     continua,
     stages,
   };
