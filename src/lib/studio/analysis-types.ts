@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import type { FieldError } from '../http';
 
-const Finite = z.number({ error: 'must be a number' }).finite({ error: 'must be a finite number' });
+const Finite = z.number({ error: 'must be a finite number' });
 
 export const StudioJobSchema = z.discriminatedUnion(
   'analysis',

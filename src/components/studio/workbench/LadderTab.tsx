@@ -52,7 +52,7 @@ function remapRung(index: number, map: (old: number) => number): number {
 }
 
 export function LadderTab({ ladderDraft, setLadderDraft }: Props) {
-  const { document, change, readOnly, rebuildReport } = useWorkbench();
+  const { document, change, readOnly } = useWorkbench();
   const candidate = (ladderDraft ?? document.ladder) as LadderSpec | undefined;
   const faults = useMemo(() => (ladderDraft ? ladderFaults(ladderDraft, document) : []), [ladderDraft, document]);
 

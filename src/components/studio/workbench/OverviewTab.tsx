@@ -1,5 +1,6 @@
 /** Overview: title, setting and general brief; the teams with objectives and private briefs; attributes and weights. */
 import type { JSONContent } from '@tiptap/react';
+import { useEffect, useState } from 'react';
 import { slug } from '../../../lib/engine';
 import type { RichText as RichTextValue, Scenario } from '../../../lib/scenario';
 import { RichText } from '../RichText';
@@ -92,13 +93,7 @@ export function OverviewTab() {
                 </button>
               )}
             </div>
-            <TextField
-              label="Objectives (one per line)"
-              value={team.objectives.join('\n')}
-              onChange={(text) => setTeam(index, `edit objectives of ${team.id}`, { objectives: text.split('\n').filter((line, i, all) => line.trim() !== '' || i === all.length - 1).map((l) => l.slice(0, 1000)) })}
-              readOnly={readOnly}
-              multiline
-            />
+            <ObjectivesField objectives={team.objectives} readOnly={readOnly} onChange={(objectives) => setTeam(index, `edit objectives of ${team.id}`, { objectives })} />
             <div>
               <span className="field-label">Private brief of {team.name}</span>
               <RichText
@@ -115,6 +110,27 @@ export function OverviewTab() {
 
       <AttributesAndWeights />
     </div>
+  );
+}
+
+/** One objective a line; blank lines stay in the box while typing but are not objectives. */
+function ObjectivesField({ objectives, onChange, readOnly }: { objectives: string[]; onChange: (objectives: string[]) => void; readOnly: boolean }) {
+  const [text, setText] = useState(objectives.join('\n'));
+  const lines = (value: string) => value.split('\n').map((l) => l.trim().slice(0, 1000)).filter(Boolean);
+  useEffect(() => {
+    setText((typed) => (lines(typed).join('\n') === objectives.join('\n') ? typed : objectives.join('\n')));
+  }, [objectives]);
+  return (
+    <TextField
+      label="Objectives (one per line)"
+      value={text}
+      readOnly={readOnly}
+      multiline
+      onChange={(value) => {
+        setText(value);
+        onChange(lines(value));
+      }}
+    />
   );
 }
 
