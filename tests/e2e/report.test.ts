@@ -9,12 +9,17 @@ let admin: Client;
 let exerciseId: string;
 let scenarioId: string;
 const contexts: BrowserContext[] = [];
+const pages = new Map<string, Page>();
 
+/** One browser (its own profile) per person, signed in through the form once. */
 async function personPage(email: string): Promise<Page> {
+  const known = pages.get(email);
+  if (known) return known;
   const context = await launchContext({ width: 1440, height: 960 });
   contexts.push(context);
   const page = await context.newPage();
   await signInThroughForm(page, app, email);
+  pages.set(email, page);
   return page;
 }
 

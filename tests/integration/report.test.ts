@@ -1,3 +1,4 @@
+import Database from 'better-sqlite3';
 import { extractText, getDocumentProxy } from 'unpdf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { anonymous, DEMO, signIn, startApp, type App, type Client } from '../support/app';
@@ -95,6 +96,42 @@ describe('report: editing together over y-websocket', () => {
       expect(c.text()).toContain('typed by the observer');
     } finally {
       c.close();
+    }
+  });
+});
+
+describe('report: storage', () => {
+  const storedRows = () => {
+    const file = new Database(app.databasePath, { readonly: true, fileMustExist: true });
+    try {
+      return (file.prepare('select count(*) as n from report_update where exercise_id = ?').get(exerciseId) as { n: number }).n;
+    } finally {
+      file.close();
+    }
+  };
+
+  it('stores every keystroke, merges the rows now and then, and into one when the last editor leaves', async () => {
+    const editor = await openReport(app, facilitator, exerciseId);
+    const before = storedRows();
+    const paragraph = new (await import('yjs')).XmlText();
+    const { XmlElement } = await import('yjs');
+    const element = new XmlElement('paragraph');
+    element.insert(0, [paragraph]);
+    const fragment = editor.doc.getXmlFragment('default');
+    fragment.insert(fragment.length, [element]);
+    for (let k = 0; k < 620; k++) paragraph.insert(paragraph.length, 'abcdefghij'[k % 10]!);
+    const watcher = await openReport(app, observer, exerciseId);
+    await eventually(() => watcher.text().includes('abcdefghij'.repeat(62)), 'all 620 keystrokes at the other editor');
+    expect(storedRows()).toBeLessThan(before + 620); // merged once on the way (every 500 updates)
+    expect(storedRows()).toBeGreaterThan(1);
+    editor.close();
+    watcher.close();
+    await eventually(() => storedRows() === 1, 'one merged row after the last editor left');
+    const again = await openReport(app, observer, exerciseId);
+    try {
+      expect(again.text()).toContain('abcdefghij'.repeat(62));
+    } finally {
+      again.close();
     }
   });
 });
@@ -235,6 +272,15 @@ describe('review over HTTP', () => {
     const lines = new TextDecoder().decode(bytes).split('\r\n');
     expect(lines[0]).toBe('step,turn,mover,move,kind,equilibrium action,deviated,regret,QRE probability,rung after,equilibrium rung,confidence,rationale,adjudication reason,node,at');
     expect(lines).toHaveLength(body.review.moves.length + 2);
+  });
+
+  it('reviews an exercise that has not started yet as empty, with the equilibrium ahead', async () => {
+    const { body } = await facilitator.json<{ exercises: { id: string; state: string }[] }>('/api/exercises');
+    const waiting = body.exercises.find((e) => e.state === 'briefing')!.id;
+    const review = await facilitator.json(`/api/exercises/${waiting}/review`);
+    expect(review.status).toBe(200);
+    expect(review.body.review.moves).toEqual([]);
+    expect(review.body.review.equilibrium.end.terminal).toBe(true);
   });
 
   it('compares the runs of the scenario', async () => {

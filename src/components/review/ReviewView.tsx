@@ -176,7 +176,7 @@ function ReviewBody({ review, csv }: { review: Review; csv: (table: string) => s
               </li>
             ))}
           </ul>
-          {review.equilibrium.count > 1 && <p className="mt-1 text-xs text-ink-600">The scenario has {review.equilibrium.count} subgame-perfect equilibria; the first is shown.</p>}
+          {review.equilibrium.count > 1 && <p className="mt-1 text-xs text-ink-600">The scenario has {review.equilibrium.count.toLocaleString('en-GB')} subgame-perfect equilibria; the first is shown.</p>}
         </div>
       </div>
 

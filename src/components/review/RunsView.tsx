@@ -4,7 +4,7 @@
  * the equilibrium outcome. Each table downloads as CSV.
  */
 import { useQuery } from '@tanstack/react-query';
-import { Bar, BarChart, CartesianGrid, Cell, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { api, describeError } from '../../lib/client/api';
 import type { ScenarioRuns } from '../../lib/report/runs';
 import { ACTUAL_COLOUR, TEAM_COLOURS } from '../../lib/report/render/chart';
@@ -69,16 +69,18 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
         <Panel title="Outcomes reached" csv={csv('outcomes')}>
           <div role="img" aria-label="Runs ending at each outcome">
             <ResponsiveContainer width="100%" height={Math.max(220, overview.outcomes.length * 34 + 60)}>
-              <BarChart data={overview.outcomes.map((o) => ({ name: o.equilibrium ? `${o.outcome} (equilibrium)` : o.outcome, runs: o.runs, equilibrium: o.equilibrium }))} layout="vertical" margin={{ left: 8, right: 16 }}>
+              <BarChart
+                data={overview.outcomes.map((o) => ({ name: o.equilibrium ? `${o.outcome} (equilibrium)` : o.outcome, [o.equilibrium ? 'equilibrium' : 'other']: o.runs }))}
+                layout="vertical"
+                margin={{ left: 8, right: 16 }}
+              >
                 <CartesianGrid horizontal={false} stroke="#d6dce2" />
                 <XAxis type="number" allowDecimals={false} tick={AXIS} />
                 <YAxis type="category" dataKey="name" width={190} tick={AXIS} />
                 <Tooltip />
-                <Bar dataKey="runs" name="Runs" isAnimationActive={false}>
-                  {overview.outcomes.map((o) => (
-                    <Cell key={o.outcome} fill={o.equilibrium ? EQUILIBRIUM_OUTCOME : ACTUAL_COLOUR} />
-                  ))}
-                </Bar>
+                {/* One bar per row; its colour says whether the outcome is a run's subgame-perfect outcome. */}
+                <Bar dataKey="other" name="Runs" stackId="outcome" fill={ACTUAL_COLOUR} isAnimationActive={false} />
+                <Bar dataKey="equilibrium" name="Runs (equilibrium outcome)" stackId="outcome" fill={EQUILIBRIUM_OUTCOME} isAnimationActive={false} />
               </BarChart>
             </ResponsiveContainer>
           </div>

@@ -27,7 +27,7 @@ export function EscalationChart({ spec, height = 280 }: { spec: Pick<EscalationS
             formatter={(value, name) => [nameAt.get(Number(value)) ?? String(value), name === 'actual' ? 'Actual play' : 'Subgame-perfect path']}
             labelFormatter={(turn) => `Turn ${turn}`}
           />
-          <Legend verticalAlign="top" align="right" height={28} formatter={(name) => (name === 'actual' ? 'Actual play' : 'Subgame-perfect path')} wrapperStyle={{ fontSize: 13 }} />
+          <Legend position="top" formatter={(name) => (name === 'actual' ? 'Actual play' : 'Subgame-perfect path')} wrapperStyle={{ fontSize: 13 }} />
           <Line type="linear" dataKey="equilibrium" stroke={EQUILIBRIUM_COLOUR} strokeWidth={2} strokeDasharray="6 4" dot={{ r: 3, fill: '#fff' }} isAnimationActive={false} />
           <Line type="linear" dataKey="actual" stroke={ACTUAL_COLOUR} strokeWidth={2.5} dot={{ r: 4, fill: ACTUAL_COLOUR }} isAnimationActive={false} />
         </LineChart>
@@ -56,7 +56,7 @@ export function RegretChart({ spec, height = 260 }: { spec: Pick<RegretSpec, 'te
             formatter={(value, name) => [Number(value).toFixed(2), spec.teams.find((t) => t.id === name)?.name ?? String(name)]}
             labelFormatter={(turn) => `Turn ${turn}: ${rows[Number(turn) - 1]?.move ?? ''}`}
           />
-          <Legend verticalAlign="top" align="right" height={28} itemSorter={(item) => teamIndex(item.dataKey)} formatter={(id) => spec.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
+          <Legend position="top" itemSorter={(item) => teamIndex(item.dataKey)} formatter={(id) => spec.teams.find((t) => t.id === id)?.name ?? String(id)} wrapperStyle={{ fontSize: 13 }} />
           {spec.teams.map((team, i) => (
             <Bar key={team.id} dataKey={team.id} fill={TEAM_COLOURS[i % TEAM_COLOURS.length]} isAnimationActive={false} maxBarSize={34} />
           ))}

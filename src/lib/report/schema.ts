@@ -45,6 +45,9 @@ export const reportStarterKit = StarterKit.configure({ undoRedo: false, link: { 
 
 export const reportExtensions = [reportStarterKit, AnalysisFigure, AnalysisTable];
 
+let schema: ReturnType<typeof getSchema> | null = null;
+
 export function reportSchema() {
-  return getSchema(reportExtensions);
+  schema ??= getSchema(reportExtensions);
+  return schema;
 }

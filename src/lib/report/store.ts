@@ -5,7 +5,7 @@
  * garbage-collected state. better-sqlite3 is synchronous, so a compaction and
  * an append in the same process never interleave.
  */
-import { yXmlFragmentToProsemirrorJSON, prosemirrorJSONToYXmlFragment } from '@tiptap/y-tiptap';
+import { prosemirrorJSONToYXmlFragment, yXmlFragmentToProseMirrorRootNode } from '@tiptap/y-tiptap';
 import { and, asc, count, eq, lte, max } from 'drizzle-orm';
 import * as Y from 'yjs';
 import { db, schema } from '../../db/client';
@@ -82,8 +82,9 @@ export function ensureDraft(exerciseId: string, generate: () => JSONContent): bo
   });
 }
 
+/** The document as Tiptap JSON, read through the report schema: elements that do not fit it are left out. */
 export function docToJson(doc: Y.Doc): JSONContent {
-  return yXmlFragmentToProsemirrorJSON(doc.getXmlFragment(REPORT_FIELD)) as JSONContent;
+  return yXmlFragmentToProseMirrorRootNode(doc.getXmlFragment(REPORT_FIELD), reportSchema()).toJSON() as JSONContent;
 }
 
 /** The stored draft as Tiptap JSON. */
