@@ -38,7 +38,10 @@ export default defineConfig({
   adapter: node({ mode: 'middleware' }),
   integrations: [react(), liveServices()],
   server: { port: Number(process.env.PORT ?? 4321), host: process.env.HOST ?? 'localhost' },
-  security: { checkOrigin: true },
+  // Astro builds each request's URL from the Host header only for allowed domains (else it
+  // uses "localhost", and its origin check then refuses form posts behind any real host name).
+  // E-mailed links use PUBLIC_URL, never the request's host, so every host may be allowed.
+  security: { checkOrigin: true, allowedDomains: [{}] },
   devToolbar: { enabled: false },
   vite: {
     plugins: [tailwindcss()],

@@ -115,6 +115,16 @@ describe('platform: invitations are the only way in', () => {
     expect(ok).toMatchObject({ status: 201, body: { role: 'member' } });
   });
 
+  it('withdraws an open invitation with a bodiless DELETE, and the link stops working', async () => {
+    const email = 'withdrawn@rungwise.example';
+    const { body } = await admin.json('/api/invitations', { method: 'POST', json: { email } });
+    const mail = await waitForMail(admin, email, /invited/);
+    const token = new URL(linkIn(mail, '/invitation?token=')).searchParams.get('token')!;
+    expect((await admin.fetch(`/api/invitations/${body.id}`, { method: 'DELETE' })).status).toBe(204);
+    const accept = await anonymous(app).json('/api/invitations/accept', { method: 'POST', json: { token, name: 'Too Late', password: 'a-good-long-password' } });
+    expect(accept).toMatchObject({ status: 410, body: { error: 'This invitation was withdrawn' } });
+  });
+
   it('refuses an invitation to an address that has an account', async () => {
     const { status, body } = await admin.json('/api/invitations', { method: 'POST', json: { email: DEMO.red } });
     expect(status).toBe(409);
@@ -158,6 +168,27 @@ describe('platform: passwords, roles and deactivation', () => {
     const adminId = body.users.find((u) => u.email === DEMO.admin)!.id;
     const demote = await admin.json(`/api/users/${adminId}`, { method: 'PATCH', json: { role: 'member' } });
     expect(demote.status).toBe(409);
+  });
+});
+
+describe('platform: signing out', () => {
+  it('ends the session through the sign-out form post', async () => {
+    const member = await signIn(app, DEMO.blue2);
+    const out = await member.fetch('/sign-out', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: '' });
+    expect(out.status).toBe(303);
+    expect(out.headers.get('location')).toBe('/sign-in');
+    expect((await member.json('/api/me')).status).toBe(401);
+  });
+
+  it('refuses a cross-site form post', async () => {
+    const member = await signIn(app, DEMO.blue2);
+    const forged = await member.fetch('/sign-out', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded', origin: 'https://elsewhere.example' },
+      body: '',
+    });
+    expect(forged.status).toBe(403);
+    expect((await member.json('/api/me')).status).toBe(200);
   });
 });
 
