@@ -33,7 +33,7 @@ export function faceOf(style: FontStyle) {
   return FACES[style];
 }
 
-export function fontPath(subset: Subset, style: FontStyle, format: 'woff' | 'woff2'): string {
+function fontPath(subset: Subset, style: FontStyle, format: 'woff' | 'woff2'): string {
   const face = FACES[style];
   return join(fontDir(), 'files', `libre-franklin-${subset}-${face.weight}-${face.style}.${format}`);
 }

@@ -107,7 +107,7 @@ function fontFaces(): string {
     .join('\n');
 }
 
-export const REPORT_CSS = `
+const REPORT_CSS = `
 body{margin:0;background:#f7f5f0;color:#18212b;font:15px/1.55 'Libre Franklin',sans-serif}
 .marking{background:#7a4b13;color:#fff;text-align:center;font-size:11px;font-weight:600;letter-spacing:.3em;padding:3px 0}
 main{max-width:760px;margin:0 auto;padding:28px 24px 40px;background:#fff}
