@@ -92,16 +92,30 @@ export class ExerciseHub implements Publisher {
     }
   }
 
-  /** A version's analysis is in: send it to every screen of an exercise on that version that may read it. */
+  /**
+   * A version's analysis is in: send it to every screen of an exercise on that version
+   * that may read it, one exercise per turn of the event loop so intents are not held up.
+   */
   analysisReady(versionId: string): void {
-    for (const [exerciseId, room] of this.rooms) {
-      const source = new Source(exerciseId);
-      if (source.exercise.scenarioVersionId !== versionId) continue;
-      for (const c of room) {
-        if (!c.viewer) continue;
-        const { analysis } = sections(source, c.viewer, ['analysis']);
-        if (analysis) this.send(c, { v: 1, type: 'analysis', analysis });
-      }
+    const pending = [...this.rooms.keys()];
+    const next = () => {
+      const exerciseId = pending.shift();
+      if (exerciseId === undefined) return;
+      this.sendAnalysis(exerciseId, versionId);
+      setImmediate(next);
+    };
+    next();
+  }
+
+  private sendAnalysis(exerciseId: string, versionId: string): void {
+    const room = this.rooms.get(exerciseId);
+    if (!room) return;
+    const source = new Source(exerciseId);
+    if (source.exercise.scenarioVersionId !== versionId) return;
+    for (const c of room) {
+      if (!c.viewer) continue;
+      const { analysis } = sections(source, c.viewer, ['analysis']);
+      if (analysis) this.send(c, { v: 1, type: 'analysis', analysis });
     }
   }
 

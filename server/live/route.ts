@@ -11,7 +11,7 @@ export const exerciseRoute: SocketRoute = {
   pattern: /^\/ws\/exercise\/(?<id>[\w-]{1,64})$/,
   admit(user, { id }) {
     const exercise = db().select().from(schema.exercise).where(eq(schema.exercise.id, id!)).get();
-    const seat = exercise ? (memberOf(db(), exercise.id, user.id)?.seat ?? null) : null;
+    const seat = exercise ? (memberOf(exercise.id, user.id)?.seat ?? null) : null;
     return decide(user, 'exercise.view', { seat, state: exercise?.state ?? 'draft', settings: readSettings(exercise?.settings) });
   },
   open(socket, ctx) {

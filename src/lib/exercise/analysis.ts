@@ -17,7 +17,8 @@ import type { ScenarioInfo } from './scenario-info';
 import { ANALYSIS_CAUTION, type AnalysisView, type EquilibriumAdvice, type ForecastView } from './view';
 
 export type Solved = { equilibrium: Equilibrium | null; equilibriumNote: string | null; qre: QreResult | null };
-type Entry = { status: 'computing' } | { status: 'failed'; message: string } | ({ status: 'ready' } & Solved);
+/** A solved version, with the view of each node worked out once (every viewer may share it). */
+type Entry = { status: 'computing' } | { status: 'failed'; message: string } | ({ status: 'ready'; views?: Map<string, AnalysisView> } & Solved);
 
 /** Runs both solves off the main thread; registered by the server (server/live/analysis.ts). */
 export type AnalysisRunner = (game: Game, lambda: number) => Promise<{ equilibria: SubgamePerfectResult; qre: QreResult | null }>;
@@ -111,10 +112,15 @@ export function analysisAt(scenario: ScenarioInfo, stage: Stage, lambda: number)
   const entry = entryFor(scenario, lambda);
   if (entry.status === 'computing') return { ...base, status: 'computing', message: 'Solving the scenario in the background; the result appears here in a moment.' };
   if (entry.status === 'failed') return { ...base, status: 'unavailable', message: entry.message };
-  return {
+  const views = entry.views ?? (entry.views = new Map());
+  const known = views.get(stage.nodeId);
+  if (known) return known;
+  const ready: AnalysisView = {
     ...base,
     status: 'ready',
     equilibrium: entry.equilibrium ? advice(scenario.game, stage, entry.equilibrium, entry.equilibriumNote) : null,
     forecast: entry.qre ? forecast(stage, entry.qre, lambda) : null,
   };
+  views.set(stage.nodeId, ready);
+  return ready;
 }

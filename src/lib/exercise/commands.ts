@@ -15,6 +15,7 @@ import type { Intent, IntentOf, IntentKind } from './protocol';
 import { drawSeed } from './draws';
 import type { ScenarioInfo } from './scenario-info';
 import { readSettings, settingsSchema, type Settings } from './settings';
+import { queries } from './queries';
 import { IntentError, pendingMoves, type ExerciseRow, type MoveRow, type Tx } from './state';
 import type { SectionName } from './view';
 
@@ -120,7 +121,7 @@ function requireAction(stage: MovingStage, teamId: string, label: string, field:
 }
 
 function pending(ctx: PlayContext): MoveRow[] {
-  return pendingMoves(ctx.tx, ctx.exercise.id, ctx.exercise.turn);
+  return pendingMoves(ctx.exercise.id, ctx.exercise.turn);
 }
 
 function pendingOf(ctx: PlayContext, teamId: string): MoveRow | undefined {
@@ -191,7 +192,9 @@ const draft: Command<'draft'> = (ctx, intent) => {
   const stage = requireMover(ctx, teamId);
   if (pendingOf(ctx, teamId)) throw new IntentError('conflict', 'Your team has submitted its move for this turn already');
   if (intent.label !== null) requireAction(stage, teamId, intent.label, 'label');
-  const values = {
+  queries().upsertDraft.run({
+    exerciseId: ctx.exercise.id,
+    teamId,
     turn: ctx.exercise.turn,
     label: intent.label,
     proposal: intent.proposal || null,
@@ -200,12 +203,7 @@ const draft: Command<'draft'> = (ctx, intent) => {
     updatedBy: ctx.actor.id,
     updatedByName: ctx.actor.name,
     updatedAt: new Date(ctx.now),
-  };
-  ctx.tx
-    .insert(schema.exerciseDraft)
-    .values({ exerciseId: ctx.exercise.id, teamId, ...values })
-    .onConflictDoUpdate({ target: [schema.exerciseDraft.exerciseId, schema.exerciseDraft.teamId], set: values })
-    .run();
+  });
   return {
     kind: 'draft',
     summary: `${ctx.actor.name} updated ${teamName(ctx, teamId)}'s draft`,

@@ -4,7 +4,6 @@
  * numbered event (the audit log) and bump the exercise's update number. Only
  * after this returns does the hub acknowledge and broadcast.
  */
-import { and, eq } from 'drizzle-orm';
 import { db, schema } from '../../db/client';
 import { decide, type Seat } from '../access';
 import type { PlatformRole } from '../roles';
@@ -13,6 +12,7 @@ import { stageAt } from './play';
 import type { Intent } from './protocol';
 import { scenarioInfo } from './scenario-info';
 import { readSettings } from './settings';
+import { queries } from './queries';
 import { IntentError, exerciseRow, memberOf, type ExerciseRow, type Tx } from './state';
 
 export type Actor = { id: string; name: string; role: PlatformRole };
@@ -41,48 +41,42 @@ export function commitChange(
   seatCheck?: (seat: Seat | null, exercise: ExerciseRow) => void,
 ): Committed | null {
   return db().transaction((tx) => {
-    const exercise = exerciseRow(tx, exerciseId);
+    const exercise = exerciseRow(exerciseId);
     if (!exercise) throw new IntentError('not-found', 'There is no such exercise');
     if (key) {
-      const prior = priorCommit(tx, exerciseId, key);
+      const prior = priorCommit(exerciseId, key);
       if (prior) {
         if (prior.actorId !== actor.id) throw new IntentError('conflict', 'This idempotency key was used by someone else; make a new one');
         return { exerciseId, seq: prior.seq, duplicate: true, result: (prior.data.result ?? {}) as Record<string, unknown>, change: null, exercise, actorName: prior.actorName, at: prior.createdAt.getTime() };
       }
     }
-    const member = actor.id ? memberOf(tx, exerciseId, actor.id) : null;
+    const member = actor.id ? memberOf(exerciseId, actor.id) : null;
     seatCheck?.(member?.seat ?? null, exercise);
     const ctx = playContext(tx, exercise, actor, member?.seat ?? null, now);
     const change = run(ctx);
     if (!change) return null;
     const seq = exercise.seq + 1;
     const result = change.result ?? {};
-    tx.insert(schema.exerciseEvent)
-      .values({
-        id: crypto.randomUUID(),
-        exerciseId,
-        seq,
-        kind: change.kind,
-        actorId: actor.id,
-        actorName: actor.name,
-        intentKey: key,
-        summary: change.summary,
-        data: { ...change.data, result, ...(change.audience ? { audience: change.audience } : {}) },
-        sections: change.sections === 'all' ? ['all'] : change.sections,
-        createdAt: new Date(now),
-      })
-      .run();
-    tx.update(schema.exercise).set({ seq }).where(eq(schema.exercise.id, exerciseId)).run();
+    queries().insertEvent.run({
+      id: crypto.randomUUID(),
+      exerciseId,
+      seq,
+      kind: change.kind,
+      actorId: actor.id,
+      actorName: actor.name,
+      intentKey: key,
+      summary: change.summary,
+      data: { ...change.data, result, ...(change.audience ? { audience: change.audience } : {}) },
+      sections: change.sections === 'all' ? ['all'] : change.sections,
+      createdAt: new Date(now),
+    });
+    queries().setSeq.run({ id: exerciseId, seq });
     return { exerciseId, seq, duplicate: false, result, change, exercise: { ...ctx.exercise, seq }, actorName: actor.name, at: now };
   });
 }
 
-function priorCommit(tx: Tx, exerciseId: string, key: string) {
-  return tx
-    .select()
-    .from(schema.exerciseEvent)
-    .where(and(eq(schema.exerciseEvent.exerciseId, exerciseId), eq(schema.exerciseEvent.intentKey, key)))
-    .get();
+function priorCommit(exerciseId: string, key: string) {
+  return queries().priorCommit.get({ exerciseId, key });
 }
 
 function playContext(tx: Tx, exercise: ExerciseRow, actor: { id: string | null; name: string }, seat: Seat | null, now: number): PlayContext {

@@ -61,15 +61,30 @@ export function drawAt(game: Game, nodeId: string, seed: number): { label: strin
   return { label: draw.label, nodeId: node.outcomes[draw.index]!.next.id, value: draw.u };
 }
 
-/** Terminal nodes reachable from a node: the outcomes an adjudication may end the game at. */
+const endingsMemo = new WeakMap<Game, Map<string, TerminalNode[]>>();
+
+/**
+ * The outcomes an adjudication may end the game at from a node: the terminal nodes
+ * below it, one per outcome text, the shallowest first (breadth-first), so the list
+ * stays short and each outcome is represented by its earliest arrival.
+ */
 export function reachableEndings(game: Game, nodeId: string): TerminalNode[] {
+  const memo = endingsMemo.get(game) ?? new Map<string, TerminalNode[]>();
+  endingsMemo.set(game, memo);
+  const known = memo.get(nodeId);
+  if (known) return known;
   const out: TerminalNode[] = [];
-  const stack = [nodeAt(game, nodeId)];
-  while (stack.length > 0) {
-    const node = stack.pop()!;
-    if (node.kind === 'terminal') out.push(node);
-    else stack.push(...childEdges(node).map((e) => e.next).reverse());
+  const seen = new Set<string>();
+  const queue = [nodeAt(game, nodeId)];
+  for (let head = 0; head < queue.length; head++) {
+    const node = queue[head]!;
+    if (node.kind !== 'terminal') queue.push(...childEdges(node).map((e) => e.next));
+    else if (!seen.has(node.outcome ?? node.id)) {
+      seen.add(node.outcome ?? node.id);
+      out.push(node);
+    }
   }
+  memo.set(nodeId, out);
   return out;
 }
 

@@ -167,7 +167,7 @@ export function loadPlayRecord(exerciseId: string): PlayRecord {
   const exercise = db().select().from(schema.exercise).where(eq(schema.exercise.id, exerciseId)).get();
   if (!exercise) throw new Error(`There is no exercise ${exerciseId}`);
   const scenario = scenarioInfo(exercise.scenarioVersionId);
-  const revealed = playOrder(scenario.game, revealedMoves(db(), exerciseId));
+  const revealed = playOrder(scenario.game, revealedMoves(exerciseId));
   const ending = revealed.find((m) => m.outcomeNodeId !== null);
   const notes = db().select().from(schema.exerciseNote).where(eq(schema.exerciseNote.exerciseId, exerciseId)).orderBy(schema.exerciseNote.createdAt).all();
   const injects = db().select().from(schema.exerciseInject).where(eq(schema.exerciseInject.exerciseId, exerciseId)).orderBy(schema.exerciseInject.createdAt).all();

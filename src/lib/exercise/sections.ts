@@ -7,6 +7,7 @@ import { and, desc, eq, gt, isNull, ne } from 'drizzle-orm';
 import { db, schema } from '../../db/client';
 import { allowed, decide, type Action, type ContextOf, type ExerciseContext, type Seat } from '../access';
 import type { PlatformRole } from '../roles';
+import { shared } from '../runtime';
 import { attachmentDecision, attachmentsOfVersion, type AttachmentInfo } from '../studio/attachments';
 import { analysisAt } from './analysis';
 import type { Audience } from './commands';
@@ -15,6 +16,7 @@ import { isMoving, moverTeams, reachableEndings, rungIndexAt, stageAt, type Movi
 import { noteOf, playedMove, playOrder } from './record';
 import { scenarioInfo, type ScenarioInfo } from './scenario-info';
 import { readSettings, type Settings } from './settings';
+import { queries } from './queries';
 import { exerciseRow, pendingMoves, revealedMoves, type ExerciseRow, type MoveRow } from './state';
 import type {
   AttachmentView,
@@ -44,7 +46,7 @@ export class Source {
 
   get exercise(): ExerciseRow {
     return this.once('exercise', () => {
-      const row = exerciseRow(db(), this.exerciseId);
+      const row = exerciseRow(this.exerciseId);
       if (!row) throw new Error(`exercise ${this.exerciseId} is gone`);
       return row;
     });
@@ -59,43 +61,32 @@ export class Source {
     return this.once('stage', () => stageAt(this.scenario.game, this.exercise.nodeId!));
   }
   get pending(): MoveRow[] {
-    return this.once('pending', () => pendingMoves(db(), this.exerciseId, this.exercise.turn));
+    return this.once('pending', () => pendingMoves(this.exerciseId, this.exercise.turn));
   }
   get revealed(): MoveRow[] {
-    return this.once('revealed', () => playOrder(this.scenario.game, revealedMoves(db(), this.exerciseId)));
+    return this.once('revealed', () => playOrder(this.scenario.game, revealedMoves(this.exerciseId)));
   }
   get drafts() {
-    return this.once('drafts', () => db().select().from(schema.exerciseDraft).where(eq(schema.exerciseDraft.exerciseId, this.exerciseId)).all());
+    return this.once('drafts', () => queries().drafts.all({ exerciseId: this.exerciseId }));
   }
   get injects() {
-    return this.once('injects', () =>
-      db().select().from(schema.exerciseInject).where(eq(schema.exerciseInject.exerciseId, this.exerciseId)).orderBy(schema.exerciseInject.createdAt).all(),
-    );
+    return this.once('injects', () => queries().injects.all({ exerciseId: this.exerciseId }));
   }
   get notes() {
-    return this.once('notes', () =>
-      db().select().from(schema.exerciseNote).where(eq(schema.exerciseNote.exerciseId, this.exerciseId)).orderBy(schema.exerciseNote.createdAt).all(),
-    );
+    return this.once('notes', () => queries().notes.all({ exerciseId: this.exerciseId }));
   }
+  /** The version's briefing documents; a frozen version's list never changes, so it is read once per process. */
   get attachments(): AttachmentInfo[] {
-    return this.once('attachments', () => attachmentsOfVersion(this.exercise.scenarioVersionId));
+    const versionId = this.exercise.scenarioVersionId;
+    const cache = shared('exercise.attachment-cache', () => new Map<string, AttachmentInfo[]>());
+    if (!cache.has(versionId)) cache.set(versionId, attachmentsOfVersion(versionId));
+    return cache.get(versionId)!;
   }
   get members() {
-    return this.once('members', () =>
-      db()
-        .select({ m: schema.membership, name: schema.user.name, email: schema.user.email })
-        .from(schema.membership)
-        .innerJoin(schema.user, eq(schema.user.id, schema.membership.userId))
-        .where(eq(schema.membership.exerciseId, this.exerciseId))
-        .orderBy(schema.membership.createdAt)
-        .all(),
-    );
+    return this.once('members', () => queries().members.all({ exerciseId: this.exerciseId }));
   }
   get scenarioTitle(): string {
-    return this.once('scenarioTitle', () => {
-      const row = db().select({ title: schema.scenario.title }).from(schema.scenario).where(eq(schema.scenario.id, this.scenario.scenarioId)).get();
-      return row?.title ?? this.scenario.title;
-    });
+    return this.once('scenarioTitle', () => queries().scenarioTitle.get({ id: this.scenario.scenarioId })?.title ?? this.scenario.title);
   }
   log(after = 0) {
     return db()

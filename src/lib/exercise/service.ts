@@ -150,7 +150,7 @@ export function creatableVersions(user: SessionUser): { id: string; label: strin
 // Reading.
 
 export function viewerFor(exerciseId: string, user: SessionUser): Viewer | null {
-  const member = memberOf(db(), exerciseId, user.id);
+  const member = memberOf(exerciseId, user.id);
   return member ? { userId: user.id, name: member.name, role: user.role, seat: member.seat } : null;
 }
 
