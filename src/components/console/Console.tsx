@@ -262,6 +262,7 @@ function TurnControls({ view, send }: { view: Snapshot; send: Send }) {
                   {move.submittedByName && <span className="text-ink-600"> (by {move.submittedByName})</span>}
                   {move.kind === 'adjudicated' && <span className="tag ml-2 bg-bronze-100 text-bronze-800">decided</span>}
                 </p>
+                {move.proposal && <p className="text-xs text-ink-600">Proposed: “{move.proposal}”</p>}
                 {move.rationale && <p className="text-xs text-ink-600">Rationale: {move.rationale}</p>}
                 {move.confidence !== null && <p className="text-xs text-ink-600">Confidence {move.confidence}%</p>}
                 {move.reason && <p className="text-xs text-ink-600">Reason: {move.reason}</p>}

@@ -63,7 +63,7 @@ function TeamList({ view, online }: { view: Snapshot; online: Set<string> }) {
   if (!team || team.members.length === 0) return <Empty>You are not on a team.</Empty>;
   return (
     <ul className="space-y-1 text-sm">
-      {team.members.map((name) => (
+      {[...team.members].sort((a, b) => Number(b === team.lead) - Number(a === team.lead)).map((name) => (
         <li key={name} className="flex items-center gap-2">
           <span aria-hidden="true" className={`inline-block h-2 w-2 rounded-full ${online.has(name) ? 'bg-moss-600' : 'bg-ink-300'}`} />
           {name}
@@ -119,6 +119,7 @@ function TurnPanel({ view, send }: { view: Snapshot; send: Send }) {
   if (mine) {
     return (
       <Panel title="Your move" id="turn">
+        <OtherMovers view={view} />
         <div className="rounded-md border border-haze-700/30 bg-haze-100 p-3 text-sm text-haze-700" data-testid="submitted">
           {mine.status === 'proposed' ? (
             <p>Your proposal went to the facilitator, who will map it onto the ladder (or end the game at an outcome) with a reason: “{mine.proposal}”</p>
@@ -134,6 +135,21 @@ function TurnPanel({ view, send }: { view: Snapshot; send: Send }) {
     );
   }
   return <MoveForm key={s.turn} view={view} send={send} />;
+}
+
+/** In a simultaneous turn: whether the other moving teams have submitted (never what). */
+function OtherMovers({ view }: { view: Snapshot }) {
+  const others = view.situation.movers.filter((m) => m.teamId !== view.me.teamId);
+  if (others.length === 0) return null;
+  return (
+    <ul className="mb-3 flex flex-wrap gap-x-4 gap-y-1 text-sm" data-testid="other-movers">
+      {others.map((m) => (
+        <li key={m.teamId}>
+          <TeamName teams={view.exercise.teams} teamId={m.teamId} />: {m.status === 'submitted' ? 'has submitted (sealed)' : 'still deciding'}
+        </li>
+      ))}
+    </ul>
+  );
 }
 
 type Form = { label: string | null; proposing: boolean; proposal: string; rationale: string; confidence: number | null };
@@ -157,10 +173,15 @@ function MoveForm({ view, send }: { view: Snapshot; send: Send }) {
   const draft = view.drafts.find((d) => d.teamId === teamId);
   const [form, setForm] = useState<Form>(() => fromDraft(draft));
   const [confirming, setConfirming] = useState(false);
+  const confirmButton = useRef<HTMLButtonElement>(null);
   const lastTyped = useRef(0);
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const submit = useIntent(send);
   const drafting = useIntent(send);
+
+  useEffect(() => {
+    if (confirming) confirmButton.current?.focus();
+  }, [confirming]);
 
   // Someone else on the team edited the draft: show it, unless this person is typing.
   useEffect(() => {
@@ -223,6 +244,7 @@ function MoveForm({ view, send }: { view: Snapshot; send: Send }) {
             The teams choose at the same time. No team sees another’s choice until the facilitator reveals them all.
           </p>
         )}
+        <OtherMovers view={view} />
         <fieldset>
           <legend className="field-label">
             Options open to your team <span className="font-normal text-ink-500">(keys <Kbd>1</Kbd>–<Kbd>{Math.min(9, options.length)}</Kbd>)</span>
@@ -266,7 +288,7 @@ function MoveForm({ view, send }: { view: Snapshot; send: Send }) {
           {view.me.may.submit ? (
             confirming ? (
               <>
-                <button type="button" className="btn-accent" autoFocus disabled={submit.busy} onClick={() => void doSubmit()} data-testid="confirm-submit">
+                <button type="button" ref={confirmButton} className="btn-accent" disabled={submit.busy} onClick={() => void doSubmit()} data-testid="confirm-submit">
                   {submit.busy ? 'Submitting…' : `Confirm: ${form.proposing ? 'send the proposal' : `“${form.label}”`}`}
                 </button>
                 <button type="button" className="btn-quiet" onClick={() => setConfirming(false)}>
@@ -303,6 +325,23 @@ function draftStatus(draft: DraftView | undefined, saving: boolean, me: string):
   return `Team draft, last edited by ${who} at ${new Date(draft.updatedAt).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' })}`;
 }
 
+/** Where an option takes the crisis, in words that fit the kind of move. */
+function whereItLeads(option: OptionView): string {
+  const rung = `${option.rungName}${option.intensity !== null ? ` (intensity ${option.intensity})` : ''}`;
+  switch (option.move) {
+    case 'climb':
+      return `Up to ${rung}`;
+    case 'step-down':
+      return `Down to ${rung}`;
+    case 'hold':
+      return `The crisis stays at ${rung}`;
+    case 'settle':
+      return `Ends the crisis by a settlement at ${rung}`;
+    default:
+      return `The crisis stands at ${rung} afterwards`;
+  }
+}
+
 function OptionCard({ option, index, checked, onChoose }: { option: OptionView; index: number; checked: boolean; onChoose: () => void }) {
   return (
     <label
@@ -316,8 +355,8 @@ function OptionCard({ option, index, checked, onChoose }: { option: OptionView; 
           <span className="font-semibold text-ink-950">{option.label}</span>
           {option.move && <span className="tag bg-ink-100 text-ink-700">{option.move}</span>}
         </span>
-        {option.rungName && <span className="mt-0.5 block text-xs text-ink-600">To the rung: {option.rungName}{option.intensity !== null ? ` (intensity ${option.intensity})` : ''}</span>}
-        {option.description && <span className="mt-1 block text-xs text-ink-700">{option.description}</span>}
+        {option.rungName && <span className="mt-0.5 block text-xs text-ink-600">{whereItLeads(option)}</span>}
+        {option.description && (option.move === 'climb' || option.move === 'step-down') && <span className="mt-1 block text-xs text-ink-700">{option.description}</span>}
       </span>
     </label>
   );

@@ -56,7 +56,8 @@ export function Panel({ title, children, actions, id, className = '' }: { title:
 // Time and connection.
 
 function clockText(ms: number): string {
-  const total = Math.max(0, Math.ceil(ms / 1000));
+  // Rounded, not ceiled: the clock offset is an estimate, and a fresh ten-minute turn should read 10:00, not 10:01.
+  const total = Math.max(0, Math.round(ms / 1000));
   const h = Math.floor(total / 3600);
   const m = Math.floor((total % 3600) / 60);
   const s = total % 60;
