@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { FormMessage } from '../ui/Field';
 import { useIntent, useLive, useServerNow, type Initial, type Send } from '../desk/live';
-import { Analysis, Empty, Injects, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName, teamName } from '../desk/parts';
+import { AfterPlayLinks, Analysis, Empty, Injects, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName, teamName } from '../desk/parts';
 import type { LiveState } from '../../lib/exercise/live-client';
 import type { Snapshot } from '../../lib/exercise/view';
 import { Roster, SettingsForm, AuditLog } from './Setup';
@@ -22,6 +22,7 @@ export default function Console({ exerciseId, initial }: Props) {
   return (
     <div data-surface="console">
       <StatusStrip view={view} live={live} now={now}>
+        <AfterPlayLinks view={view} />
         <PhaseControls view={view} send={send} />
       </StatusStrip>
       <MissedNotice live={live} />

@@ -133,6 +133,17 @@ export function stageWords(view: Snapshot): string {
   return s.kind === 'simultaneous' ? `${names.join(' and ')} move at the same time` : `${names[0]} to move`;
 }
 
+/** Links to the exercise's Review and Report, for the seats that work on them. */
+export function AfterPlayLinks({ view }: { view: Snapshot }) {
+  const base = `/exercises/${view.exercise.id}`;
+  return (
+    <nav aria-label="After play" className="flex gap-3 text-sm">
+      <a href={`${base}/review`}>Review</a>
+      <a href={`${base}/report`}>Report</a>
+    </nav>
+  );
+}
+
 export function StatusStrip({ view, live, now, children }: { view: Snapshot; live: LiveState; now: number | null; children?: ReactNode }) {
   return (
     <div className="panel mb-4 flex flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3" data-testid="status-strip">

@@ -2,7 +2,7 @@
 import { useEffect, useRef, useState } from 'react';
 import { FormMessage } from '../ui/Field';
 import { useIntent, useLive, useServerNow, type Initial, type Send } from '../desk/live';
-import { Analysis, Empty, Injects, Kbd, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName } from '../desk/parts';
+import { AfterPlayLinks, Analysis, Empty, Injects, Kbd, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName } from '../desk/parts';
 import type { MoveView, Snapshot } from '../../lib/exercise/view';
 
 type Props = { exerciseId: string; initial: Initial };
@@ -33,7 +33,9 @@ export default function ObserverLog({ exerciseId, initial }: Props) {
 
   return (
     <div data-surface="observe">
-      <StatusStrip view={view} live={live} now={now} />
+      <StatusStrip view={view} live={live} now={now}>
+        <AfterPlayLinks view={view} />
+      </StatusStrip>
       <MissedNotice live={live} />
       <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <div className="space-y-4">

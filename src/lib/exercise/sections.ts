@@ -6,7 +6,7 @@
 import { and, desc, eq, gt, isNull, ne } from 'drizzle-orm';
 import { db, schema } from '../../db/client';
 import { allowed, decide, type Action, type ContextOf, type ExerciseContext, type Seat } from '../access';
-import type { PlatformRole } from '../roles';
+import { EXERCISE_ROLES, type PlatformRole } from '../roles';
 import { shared } from '../runtime';
 import { attachmentDecision, attachmentsOfVersion, type AttachmentInfo } from '../studio/attachments';
 import { analysisAt } from './analysis';
@@ -298,7 +298,15 @@ function authoredView(source: Source): NonNullable<Snapshot['authored']> {
 }
 
 function rosterView(source: Source): NonNullable<Snapshot['roster']> {
-  const members = source.members.map((m) => ({ membershipId: m.m.id, userId: m.m.userId, name: m.name, email: m.email, role: m.m.role, teamId: m.m.teamId, isLead: m.m.isLead }));
+  const teamOrder = source.scenario.teams.map((t) => t.id);
+  const rank = (m: (typeof source.members)[number]) => [EXERCISE_ROLES.indexOf(m.m.role), teamOrder.indexOf(m.m.teamId ?? ''), m.m.isLead ? 0 : 1];
+  const byRank = (a: (typeof source.members)[number], b: (typeof source.members)[number]) => {
+    const [x, y] = [rank(a), rank(b)];
+    return x[0]! - y[0]! || x[1]! - y[1]! || x[2]! - y[2]! || a.name.localeCompare(b.name);
+  };
+  const members = [...source.members]
+    .sort(byRank)
+    .map((m) => ({ membershipId: m.m.id, userId: m.m.userId, name: m.name, email: m.email, role: m.m.role, teamId: m.m.teamId, isLead: m.m.isLead }));
   const invitations = db()
     .select()
     .from(schema.invitation)
