@@ -314,7 +314,7 @@ function Adjudicate({ view, send, teamId, proposal }: { view: Snapshot; send: Se
       </button>
     );
   }
-  const submit = async (event: React.FormEvent) => {
+  const submit = async (event: { preventDefault(): void }) => {
     event.preventDefault();
     const decision = choice.startsWith('end:') ? { outcome: choice.slice(4) } : { action: choice };
     const done = await adjudicate.run({ kind: 'adjudicate', turn: s.turn, teamId, decision, reason: reason.trim() });

@@ -65,7 +65,7 @@ const likeliest = (probabilities: Record<string, number>): string =>
   Object.entries(probabilities).reduce((best, entry) => (entry[1] > best[1] ? entry : best))[0];
 
 /** Follow the equilibrium from a node to a terminal, taking each chance node's likeliest outcome. */
-function followEquilibrium(game: Game, from: GameNode, eq: Equilibrium): GameNode {
+function followEquilibrium(from: GameNode, eq: Equilibrium): GameNode {
   let node = from;
   while (node.kind !== 'terminal') {
     const edges = childEdges(node);
@@ -92,7 +92,7 @@ function advice(game: Game, stage: Extract<Stage, { movers: unknown }>, eq: Equi
     actions.push({ teamId: mover.team, label: chosen.label, margin: margin === null ? null : margin.toFixed(2) });
     node = node.actions.find((a) => a.label === chosen.label)!.next;
   }
-  const end = followEquilibrium(game, nodeAt(game, stage.nodeId), eq);
+  const end = followEquilibrium(nodeAt(game, stage.nodeId), eq);
   const payoffs = end.kind === 'terminal' ? payoffScorer(game)(end) : null;
   return {
     actions,

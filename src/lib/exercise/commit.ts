@@ -4,7 +4,7 @@
  * numbered event (the audit log) and bump the exercise's update number. Only
  * after this returns does the hub acknowledge and broadcast.
  */
-import { db, schema } from '../../db/client';
+import { db } from '../../db/client';
 import { decide, type Seat } from '../access';
 import type { PlatformRole } from '../roles';
 import { COMMANDS, accessFor, deadlinePassed, type Change, type PlayContext } from './commands';

@@ -12,7 +12,7 @@ import { attachmentDecision, attachmentsOfVersion, type AttachmentInfo } from '.
 import { analysisAt } from './analysis';
 import type { Audience } from './commands';
 import { NO_CLOCK } from './clock';
-import { isMoving, moverTeams, reachableEndings, rungIndexAt, stageAt, type MovingStage, type Stage } from './play';
+import { moverTeams, reachableEndings, rungIndexAt, stageAt, type MovingStage, type Stage } from './play';
 import { noteOf, playedMove, playOrder } from './record';
 import { scenarioInfo, type ScenarioInfo } from './scenario-info';
 import { readSettings, type Settings } from './settings';
