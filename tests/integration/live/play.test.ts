@@ -9,7 +9,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mulberry32 } from '../../../src/lib/engine';
 import { IntentRefused, type LiveClient } from '../../../src/lib/exercise/live-client';
 import type { Snapshot } from '../../../src/lib/exercise/view';
-import { DEMO, signIn, startApp, type App, type Client } from '../../support/app';
+import { anonymous, DEMO, signIn, startApp, type App, type Client } from '../../support/app';
+import { linkIn, waitForMail } from '../../support/mail';
 import { connectLive, joined, newExercise, optionWith, RawSocket, until, view } from './support';
 
 let app: App;
@@ -179,6 +180,40 @@ describe('live play over sockets', () => {
     expect(body.view.moves.filter((m) => m.teamId === 'velmora')).toHaveLength(1);
     blue.close();
     facilitator.close();
+  });
+});
+
+describe('the roster', () => {
+  it('seats an account straight away and invites an unknown address, whose acceptance seats it', async () => {
+    const id = await newExercise(clients.facilitator!, 'Roster run', {}, []);
+    const F = open('facilitator', id);
+    await joined(F);
+    const seated = await clients.facilitator!.json(`/api/exercises/${id}/roster`, { method: 'POST', json: { email: DEMO.observer, role: 'observer' } });
+    expect(seated).toMatchObject({ status: 201, body: { seated: 'member', notified: true } });
+    await until(F, (s) => s.snapshot!.roster!.members.some((m) => m.name === 'Oren Hale'), 'the change made over HTTP to reach the open Console');
+    const admin = await signIn(app, DEMO.admin);
+    const told = await waitForMail(admin, DEMO.observer, /You are on the exercise “Roster run”/);
+    expect(linkIn(told, `/exercises/${id}`)).toContain(`/exercises/${id}`);
+
+    const email = 'new.player@rungwise.example';
+    const invited = await clients.facilitator!.json(`/api/exercises/${id}/roster`, { method: 'POST', json: { email, role: 'player', teamId: 'ostrakh' } });
+    expect(invited).toMatchObject({ status: 201, body: { seated: 'invited' } });
+    const mail = await waitForMail(admin, email, /invited/);
+    expect(mail.text).toContain('on the Ostrakh team of the exercise “Roster run”');
+    const token = new URL(linkIn(mail, '/invitation?token=')).searchParams.get('token')!;
+    expect((await anonymous(app).json('/api/invitations/accept', { method: 'POST', json: { token, name: 'Nel Arvo', password: 'a-long-new-password' } })).status).toBe(201);
+    const newcomer = await signIn(app, email, 'a-long-new-password');
+    const { status, body } = await newcomer.json<{ view: Snapshot }>(`/api/exercises/${id}`);
+    expect(status).toBe(200);
+    expect(body.view.me).toMatchObject({ role: 'player', teamId: 'ostrakh' });
+
+    const bad = await clients.facilitator!.json(`/api/exercises/${id}/roster`, { method: 'POST', json: { email: 'x@rungwise.example', role: 'player' } });
+    expect(bad).toMatchObject({ status: 400, body: { fields: [{ field: 'teamId' }] } });
+    const unknownTeam = await clients.facilitator!.json(`/api/exercises/${id}/roster`, { method: 'POST', json: { email: 'y@rungwise.example', role: 'player', teamId: 'atlantis' } });
+    expect(unknownTeam).toMatchObject({ status: 400, body: { fields: [{ field: 'teamId', reason: 'unknown team' }] } });
+    const { body: roster } = await clients.facilitator!.json<{ view: Snapshot }>(`/api/exercises/${id}`);
+    const me = roster.view.roster!.members.find((m) => m.role === 'facilitator')!;
+    expect((await clients.facilitator!.json(`/api/exercises/${id}/roster/${me.membershipId}`, { method: 'DELETE' })).status).toBe(409);
   });
 });
 
