@@ -99,6 +99,10 @@ export async function acceptInvitation(input: z.infer<typeof acceptInput>): Prom
         .run();
     }
   });
+  if (invitation.exerciseId) {
+    const { seatAccepted } = await import('./exercise/service');
+    seatAccepted(invitation.exerciseId, { id: userId, name: input.name });
+  }
   return { email: invitation.email, userId };
 }
 

@@ -449,7 +449,9 @@ function InjectComposer({ view, send }: { view: Snapshot; send: Send }) {
   const [title, setTitle] = useState('');
   const [body, setBody] = useState('');
   const [to, setTo] = useState<string[]>([]);
+  const [attached, setAttached] = useState<string[]>([]);
   const teams = view.exercise.teams;
+  const documents = view.briefs.flatMap((b) => b.attachments.map((a) => ({ ...a, brief: b.teamId === null ? 'every team' : b.teamName })));
   const authored = (view.authored ?? []).filter((a) => !a.released);
   const sendable = view.exercise.state !== 'draft' && view.exercise.state !== 'ended';
   return (
@@ -488,8 +490,8 @@ function InjectComposer({ view, send }: { view: Snapshot; send: Send }) {
         onSubmit={(e) => {
           e.preventDefault();
           void inject
-            .run({ kind: 'inject', title: title.trim(), body: body.trim(), to: to.length === 0 ? 'all' : to, attachmentIds: [], authoredId: null }, 'Inject sent')
-            .then((ok) => ok && (setTitle(''), setBody(''), setTo([])));
+            .run({ kind: 'inject', title: title.trim(), body: body.trim(), to: to.length === 0 ? 'all' : to, attachmentIds: attached, authoredId: null }, 'Inject sent')
+            .then((ok) => ok && (setTitle(''), setBody(''), setTo([]), setAttached([])));
         }}
         data-testid="inject-form"
       >
@@ -507,6 +509,17 @@ function InjectComposer({ view, send }: { view: Snapshot; send: Send }) {
           ))}
           <span className="text-xs text-ink-500">{to.length === 0 ? '(none ticked: all teams)' : ''}</span>
         </fieldset>
+        {documents.length > 0 && (
+          <fieldset className="text-sm">
+            <legend className="text-ink-600">Attach briefing documents</legend>
+            {documents.map((d) => (
+              <label key={d.id} className="flex items-center gap-1">
+                <input type="checkbox" checked={attached.includes(d.id)} onChange={(e) => setAttached(e.target.checked ? [...attached, d.id] : attached.filter((x) => x !== d.id))} />
+                {d.filename} <span className="text-xs text-ink-500">({d.brief})</span>
+              </label>
+            ))}
+          </fieldset>
+        )}
         <button type="submit" className="btn-primary py-1.5" disabled={!sendable || inject.busy || !title.trim() || !body.trim()}>
           Send the inject
         </button>

@@ -295,6 +295,15 @@ export function unseatPerson(exerciseId: string, user: SessionUser, membershipId
 }
 
 
+/** An invitation with a seat was accepted (src/lib/invitations.ts made the membership): log it and tell the screens. */
+export function seatAccepted(exerciseId: string, person: { id: string; name: string }, now = Date.now()): void {
+  try {
+    publish(commitChange(exerciseId, { id: person.id, name: person.name }, null, () => ({ kind: 'roster', summary: `${person.name} accepted the invitation and joined`, data: { userId: person.id }, sections: 'all' }), now));
+  } catch (error) {
+    console.error(`[live] could not log the accepted seat in exercise ${exerciseId}`, error);
+  }
+}
+
 /** Roster and log calls answer over HTTP: an intent's refusal becomes the matching HTTP error. */
 function asHttp<T>(run: () => T): T {
   try {

@@ -202,6 +202,7 @@ describe('the roster', () => {
     expect(mail.text).toContain('on the Ostrakh team of the exercise “Roster run”');
     const token = new URL(linkIn(mail, '/invitation?token=')).searchParams.get('token')!;
     expect((await anonymous(app).json('/api/invitations/accept', { method: 'POST', json: { token, name: 'Nel Arvo', password: 'a-long-new-password' } })).status).toBe(201);
+    await until(F, (s) => s.snapshot!.roster!.members.some((m) => m.name === 'Nel Arvo') && s.snapshot!.log!.some((e) => e.summary === 'Nel Arvo accepted the invitation and joined'), 'the accepted seat on the Console');
     const newcomer = await signIn(app, email, 'a-long-new-password');
     const { status, body } = await newcomer.json<{ view: Snapshot }>(`/api/exercises/${id}`);
     expect(status).toBe(200);
