@@ -18,7 +18,7 @@ import {
   type PayoffRange,
   type Rng,
 } from '../src/lib/engine';
-import { CHANCE, TERMINAL } from '../src/lib/engine/compile';
+import { CHANCE, TERMINAL } from '../src/lib/engine';
 import { parseScenario, scenarioGame } from '../src/lib/scenario';
 import { readFileSync } from 'node:fs';
 

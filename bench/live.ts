@@ -16,7 +16,7 @@ import { buildIfNeeded } from '../server/build';
 import { LiveClient, type LiveState } from '../src/lib/exercise/live-client';
 import type { Intent } from '../src/lib/exercise/protocol';
 import type { Snapshot } from '../src/lib/exercise/view';
-import { mulberry32 } from '../src/lib/engine/rng';
+import { mulberry32 } from '../src/lib/engine';
 import { signIn, startApp, type App, type Client } from '../tests/support/app';
 
 const EXERCISES = 30;

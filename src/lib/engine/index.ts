@@ -7,7 +7,7 @@ export { EXACT_PATTERN, formatExact, parseExact, toExact, toFloat, type Num } fr
 export { validateGame, formatPath, type Fault, type FaultCode, type Validated, type ValidateOptions } from './validate';
 export { parsePlainGame } from './plain';
 export { indexGame, nodeById, parentOf, pathTo, choiceKey, describeNode, hasImperfectInformation, type TreeIndex } from './tree';
-export { ROOT_ID, childId, slug } from './ids';
+export { ROOT_ID, childId, siblingKeys, slug } from './ids';
 export { payoffScorer, terminalPayoffs } from './scoring';
 export { compile, compiledGame, isPerfectInformation, CHANCE, TERMINAL, type FlatGame } from './compile';
 export { buildLadder, checkLadder, LadderSpecSchema, type LadderSpec, type BuiltLadder } from './ladder';

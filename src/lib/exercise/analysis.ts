@@ -5,12 +5,7 @@
  * (so live play never waits on a solve), and kept in memory. Until a solve is
  * done the section says "computing"; the hub sends the result when it is in.
  */
-import { childEdges, type Game, type GameNode } from '../engine/model';
-import { toFloat } from '../engine/numbers';
-import { actionValues, type Equilibrium } from '../engine/profile';
-import { payoffScorer } from '../engine/scoring';
-import { logitQre, type QreResult } from '../engine/solvers/qre';
-import { solveSubgamePerfect, type SubgamePerfectResult } from '../engine/solvers/subgame-perfect';
+import { childEdges, type Game, type GameNode, toFloat, actionValues, type Equilibrium, payoffScorer, logitQre, type QreResult, solveSubgamePerfect, type SubgamePerfectResult } from '../engine';
 import { lookup, shared } from '../runtime';
 import { isMoving, nodeAt, type Stage } from './play';
 import type { ScenarioInfo } from './scenario-info';

@@ -5,10 +5,7 @@
  * lands at, the outcomes reachable for an adjudicated ending, the "hold"
  * action of a deadline, and the rung the crisis stands at.
  */
-import { advance as engineAdvance, drawChance, stageAt as engineStageAt, type ActionView, type Stage as EngineStage, type StageMover } from '../engine/play';
-import { childEdges, type ChanceNode, type Game, type GameNode, type TerminalNode } from '../engine/model';
-import { mulberry32 } from '../engine/rng';
-import { indexGame, nodeById } from '../engine/tree';
+import { advance as engineAdvance, drawChance, stageAt as engineStageAt, type ActionView, type Stage as EngineStage, type StageMover, childEdges, type ChanceNode, type Game, type GameNode, type TerminalNode, mulberry32, indexGame, nodeById } from '../engine';
 
 export type { ActionView, StageMover };
 

@@ -9,8 +9,7 @@
  * An edit whose node or action is gone is reported, never silently dropped.
  * Every function here is pure: trees are copied along the changed path only.
  */
-import { childId, siblingKeys, slug } from '../engine/ids';
-import { childEdges, type GameNode, type Num, type TerminalNode } from '../engine/model';
+import { childId, siblingKeys, slug, childEdges, type GameNode, type Num, type TerminalNode } from '../engine';
 
 export type TreeEdit =
   | { kind: 'payoff'; nodeId: string; team: string; value: Num | null }

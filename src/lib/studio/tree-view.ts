@@ -3,7 +3,7 @@
  * in preorder, each with its depth, parent and the edge leading to it. Large
  * trees open collapsed at the depth that keeps the visible count under a limit.
  */
-import { childEdges, type GameNode } from '../engine/model';
+import { childEdges, type GameNode } from '../engine';
 
 /** Most nodes the canvas shows at once (it stays responsive up to here). */
 export const VISIBLE_LIMIT = 2_500;

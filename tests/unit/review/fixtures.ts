@@ -1,5 +1,5 @@
 /** Small games from the literature and a helper that turns a line of play into a play record. */
-import type { Game, GameNode } from '../../../src/lib/engine/model';
+import { type Game, type GameNode } from '../../../src/lib/engine';
 import type { PlayedMove, PlayRecord } from '../../../src/lib/exercise/record';
 
 const terminal = (id: string, a: number, b: number, outcome?: string): GameNode => ({ id, kind: 'terminal', outcome, payoffs: { first: a, second: b } });

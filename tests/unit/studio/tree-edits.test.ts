@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { GameNode } from '../../../src/lib/engine/model';
+import { type GameNode } from '../../../src/lib/engine';
 import { applyEdit, describeEdit, recordEdit, replayEdits, type TreeEdit } from '../../../src/lib/studio/tree-edits';
 
 /** Blue protests or stays quiet; after a protest Red yields or presses on. */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { GameNode } from '../../../src/lib/engine/model';
+import { type GameNode } from '../../../src/lib/engine';
 import { initialCollapse, visibleTree } from '../../../src/lib/studio/tree-view';
 import { treeSvg } from '../../../src/lib/studio/tree-svg';
 

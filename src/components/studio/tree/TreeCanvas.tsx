@@ -6,7 +6,7 @@
 import { Background, ReactFlow, ReactFlowProvider, useReactFlow, type Edge } from '@xyflow/react';
 import '@xyflow/react/dist/base.css';
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent, type ReactNode } from 'react';
-import type { GameNode } from '../../../lib/engine/model';
+import { type GameNode } from '../../../lib/engine';
 import { treeSvg } from '../../../lib/studio/tree-svg';
 import { initialCollapse, OPENING_LIMIT, VISIBLE_LIMIT, visibleTree, type TreeView, type ViewNode } from '../../../lib/studio/tree-view';
 import { layoutTree, type Layout } from './layout';
