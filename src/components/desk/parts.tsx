@@ -147,7 +147,7 @@ export function AfterPlayLinks({ view }: { view: Snapshot }) {
 export function StatusStrip({ view, live, now, children }: { view: Snapshot; live: LiveState; now: number | null; children?: ReactNode }) {
   return (
     <div className="panel mb-4 flex flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3" data-testid="status-strip">
-      <div className="min-w-0 flex-1">
+      <div className="min-w-64 flex-1">
         <div className="flex flex-wrap items-center gap-2">
           <h1 className="text-xl">{view.exercise.title}</h1>
           <StateTag state={view.exercise.state} />
