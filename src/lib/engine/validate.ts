@@ -106,7 +106,7 @@ function shapeFault(doc: unknown, issue: z.core.$ZodIssue): Fault {
   const inTree = parts[0] === 'root';
   const where = inTree ? `${whereInTree(labelsAlong(doc, parts))}: ` : '';
   let code: FaultCode = 'shape';
-  let message = `${formatPath(parts)} ${issue.message}`;
+  let message = issue.message;
   if (parent === 'payoffs' || last === 'payoffs') {
     code = 'payoff-not-finite';
     message = `payoff${typeof last === 'string' && last !== 'payoffs' ? ` for ${last}` : ''} ${issue.message}`;
