@@ -3,24 +3,44 @@
  * opens: a valid session cookie (else 401), a trusted Origin (else 403), a
  * known route (else 404) and the route's own access check (403 with reason).
  * Each feature adds its route to ROUTES.
+ *
+ * Every open socket's messages pass server/socket-guard.ts (the route's
+ * message limit; nothing once the server closes it), and every open socket
+ * stays known here, so an access change (src/lib/access-changes.ts)
+ * closes it at once: a deactivated account's sockets with 4401, a socket whose
+ * route no longer admits the person with 4403 and the access rule's reason.
  */
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import type { Decision } from '../src/lib/access';
+import { onAccessChange, type AccessChange } from '../src/lib/access-changes';
 import { userFromHeaders, type SessionUser } from '../src/lib/auth';
 import { loadConfig } from '../src/lib/config';
 import { exerciseRoute } from './live/route';
 import { reportRoute } from './report/route';
+import { closeSocket, guardMessages, type MessageLimit } from './socket-guard';
 
 export type SocketContext = { user: SessionUser; params: Record<string, string>; request: IncomingMessage };
 
 export type SocketRoute = {
   /** Path pattern with named groups, e.g. /^\/ws\/exercise\/(?<id>[\w-]+)$/ */
   pattern: RegExp;
+  /** Messages one connection may send: a burst, then so many a second. */
+  limit: MessageLimit;
   admit(user: SessionUser, params: Record<string, string>): Decision | Promise<Decision>;
+  /** The exercise the channel belongs to: seat and settings changes there re-check its sockets. */
+  exerciseOf(params: Record<string, string>): string;
+  /** May this open socket stay after an access change? Without it, `admit` is asked again. */
+  recheck?(socket: WebSocket, ctx: SocketContext): Decision | Promise<Decision>;
   open(socket: WebSocket, ctx: SocketContext): void;
 };
+
+/** Close codes 4400-4499 tell our clients (and y-websocket's) not to reconnect. */
+export const CLOSE_SIGNED_OUT = 4401;
+export const CLOSE_REFUSED = 4403;
+
+type OpenSocket = { socket: WebSocket; route: SocketRoute; ctx: SocketContext };
 
 const ROUTES: SocketRoute[] = [exerciseRoute, reportRoute];
 
@@ -30,13 +50,22 @@ export type SocketsHandle = { close(): Promise<void> };
 
 export function attachSockets(server: Server): SocketsHandle {
   const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_MESSAGE_BYTES });
+  const { socketLimits } = loadConfig();
+  const open = new Set<OpenSocket>();
+  const stopListening = onAccessChange((change) => revisit(open, change));
   server.on('upgrade', (request: IncomingMessage, socket: Duplex, head: Buffer) => {
     const path = new URL(request.url ?? '/', 'http://localhost').pathname;
     if (!path.startsWith('/ws/')) return; // someone else's upgrade (the dev server's HMR)
     admit(request, path)
       .then((admitted) => {
         if ('refusal' in admitted) return refuse(socket, admitted.refusal.status, admitted.refusal.reason);
-        wss.handleUpgrade(request, socket, head, (ws) => admitted.route.open(ws, admitted.ctx));
+        wss.handleUpgrade(request, socket, head, (ws) => {
+          const entry: OpenSocket = { socket: ws, ...admitted };
+          guardMessages(ws, socketLimits ? admitted.route.limit : null);
+          open.add(entry);
+          ws.once('close', () => open.delete(entry));
+          admitted.route.open(ws, admitted.ctx);
+        });
       })
       .catch((error) => {
         console.error('[ws] upgrade failed', error);
@@ -46,10 +75,32 @@ export function attachSockets(server: Server): SocketsHandle {
   return {
     close: () =>
       new Promise((resolve) => {
+        stopListening();
         for (const client of wss.clients) client.close(1001, 'Server is shutting down');
         wss.close(() => resolve());
       }),
   };
+}
+
+/** Close the sockets an access change concerns, or ask their routes again. */
+function revisit(open: Set<OpenSocket>, change: AccessChange): void {
+  for (const entry of open) {
+    if (change.kind === 'account-closed') {
+      if (entry.ctx.user.id === change.userId) closeSocket(entry.socket, CLOSE_SIGNED_OUT, change.reason);
+    } else if (entry.route.exerciseOf(entry.ctx.params) === change.exerciseId && (change.userId === null || change.userId === entry.ctx.user.id)) {
+      void recheck(entry);
+    }
+  }
+}
+
+async function recheck({ socket, route, ctx }: OpenSocket): Promise<void> {
+  try {
+    const decision = await (route.recheck ? route.recheck(socket, ctx) : route.admit(ctx.user, ctx.params));
+    if (!decision.ok) closeSocket(socket, CLOSE_REFUSED, decision.reason);
+  } catch (error) {
+    console.error('[ws] access re-check failed', error);
+    closeSocket(socket, 1011, 'Server error');
+  }
 }
 
 type Admission =

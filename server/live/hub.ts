@@ -19,6 +19,7 @@ import { IntentError, type EventRow } from '../../src/lib/exercise/state';
 import { viewerFor } from '../../src/lib/exercise/service';
 import { SECTIONS, type EventSummary, type PresenceView, type SectionName, type Snapshot } from '../../src/lib/exercise/view';
 import { shared } from '../../src/lib/runtime';
+import { MESSAGE_DROPPED } from '../socket-guard';
 import { provideAnalysis } from './analysis';
 
 /** A client this far behind gets a whole snapshot instead of the changed sections. */
@@ -26,6 +27,8 @@ const RESUME_LIMIT = 500;
 const HEARTBEAT_MS = 20_000;
 /** A client that cannot keep up (this much unsent) is dropped; it resumes when it reconnects. */
 const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
+
+const RATE_LIMITED = new IntentError('rate-limited', 'This screen sent too many messages in a short time; this one was not read and nothing changed. Wait a moment and send it again.');
 
 type Connection = {
   socket: WebSocket;
@@ -65,6 +68,7 @@ export class ExerciseHub implements Publisher {
     this.rooms.set(exerciseId, room);
     socket.on('pong', () => (connection.alive = true));
     socket.on('message', (data, isBinary) => this.receive(connection, data as Buffer, isBinary));
+    socket.on(MESSAGE_DROPPED, (data: Buffer, isBinary: boolean) => this.refuse(connection, isBinary ? null : keyOf(data), RATE_LIMITED));
     socket.on('close', () => this.leave(connection));
     socket.on('error', () => socket.terminate());
   }

@@ -9,6 +9,9 @@ import { exerciseHub } from './hub';
 
 export const exerciseRoute: SocketRoute = {
   pattern: /^\/ws\/exercise\/(?<id>[\w-]{1,64})$/,
+  /** A screen sends a draft at most every 600 ms and a ping every 10 s; the bench's busiest client about 5 a second. */
+  limit: { burst: 200, perSecond: 20 },
+  exerciseOf: ({ id }) => id!,
   admit(user, { id }) {
     const exercise = db().select().from(schema.exercise).where(eq(schema.exercise.id, id!)).get();
     const seat = exercise ? (memberOf(exercise.id, user.id)?.seat ?? null) : null;

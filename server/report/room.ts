@@ -6,6 +6,9 @@
  * Every update is stored in SQLite before it is passed on. Readers receive the
  * document and others' carets but their own document updates are dropped.
  * Awareness states carry the signed-in name, whatever the client claims.
+ * An editor's update dropped by the message limit (server/socket-guard.ts) is
+ * asked for again: a second later the room sends that peer sync step 1, which
+ * y-websocket answers with everything the server's copy lacks.
  */
 import * as decoding from 'lib0/decoding';
 import * as encoding from 'lib0/encoding';
@@ -15,6 +18,7 @@ import type { WebSocket } from 'ws';
 import * as Y from 'yjs';
 import type { SessionUser } from '../../src/lib/auth';
 import { appendUpdate, compact, loadInto } from '../../src/lib/report/store';
+import { MESSAGE_DROPPED } from '../socket-guard';
 
 export const MESSAGE_SYNC = 0;
 export const MESSAGE_AWARENESS = 1;
@@ -23,10 +27,11 @@ export const MESSAGE_QUERY_AWARENESS = 3;
 /** Merge the stored rows after this many new updates, and when the last peer leaves. */
 export const COMPACT_EVERY = 500;
 const PING_MS = 30_000;
+const RESYNC_AFTER_DROP_MS = 1000;
 
 export type PeerMode = 'edit' | 'read';
 
-type Peer = { socket: WebSocket; user: SessionUser; mode: PeerMode; clients: Set<number>; alive: boolean };
+type Peer = { socket: WebSocket; user: SessionUser; mode: PeerMode; clients: Set<number>; alive: boolean; resync: NodeJS.Timeout | null };
 
 type AwarenessChange = { added: number[]; updated: number[]; removed: number[] };
 
@@ -51,8 +56,12 @@ export class ReportRoom {
     return this.peers.size;
   }
 
+  modeOf(socket: WebSocket): PeerMode | null {
+    return this.peers.get(socket)?.mode ?? null;
+  }
+
   join(socket: WebSocket, user: SessionUser, mode: PeerMode): void {
-    const peer: Peer = { socket, user, mode, clients: new Set(), alive: true };
+    const peer: Peer = { socket, user, mode, clients: new Set(), alive: true, resync: null };
     this.peers.set(socket, peer);
     socket.binaryType = 'nodebuffer';
     socket.on('message', (data: Buffer, isBinary: boolean) => {
@@ -64,6 +73,7 @@ export class ReportRoom {
         this.drop(peer, 'Malformed message');
       }
     });
+    socket.on(MESSAGE_DROPPED, () => this.resyncLater(peer));
     socket.on('pong', () => (peer.alive = true));
     const ping = setInterval(() => {
       if (!peer.alive) return socket.terminate();
@@ -72,18 +82,33 @@ export class ReportRoom {
     }, PING_MS);
     socket.on('close', () => {
       clearInterval(ping);
+      clearTimeout(peer.resync ?? undefined);
       this.leave(peer);
     });
     this.greet(peer);
   }
 
   private greet(peer: Peer): void {
+    this.sendSyncStep1(peer);
+    const states = [...this.awareness.getStates().keys()];
+    if (states.length > 0) this.send(peer, awarenessMessage(this.awareness, states));
+  }
+
+  /** Sync step 1 carries the server's state vector; the client answers with what is missing from it. */
+  private sendSyncStep1(peer: Peer): void {
     const sync = encoding.createEncoder();
     encoding.writeVarUint(sync, MESSAGE_SYNC);
     syncProtocol.writeSyncStep1(sync, this.doc);
     this.send(peer, encoding.toUint8Array(sync));
-    const states = [...this.awareness.getStates().keys()];
-    if (states.length > 0) this.send(peer, awarenessMessage(this.awareness, states));
+  }
+
+  /** A dropped message may have been a document update: ask the editor for what is missing, once the flood has passed. */
+  private resyncLater(peer: Peer): void {
+    if (peer.mode !== 'edit' || peer.resync) return;
+    peer.resync = setTimeout(() => {
+      peer.resync = null;
+      this.sendSyncStep1(peer);
+    }, RESYNC_AFTER_DROP_MS);
   }
 
   private receive(peer: Peer, message: Uint8Array): void {

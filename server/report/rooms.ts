@@ -13,6 +13,11 @@ function closeRoom(room: ReportRoom): void {
   room.destroy();
 }
 
+/** The mode an open socket joined its report with; null when it is not in the room. */
+export function modeOf(exerciseId: string, socket: WebSocket): PeerMode | null {
+  return rooms().get(exerciseId)?.modeOf(socket) ?? null;
+}
+
 export function joinReport(exerciseId: string, socket: WebSocket, user: SessionUser, mode: PeerMode): ReportRoom {
   let room = rooms().get(exerciseId);
   if (!room) {

@@ -2,6 +2,7 @@
 import { and, asc, eq, isNull } from 'drizzle-orm';
 import { db, schema } from '../db/client';
 import type { PlatformRole } from '../db/schema';
+import { announceAccessChange } from './access-changes';
 import { auth } from './auth';
 import { HttpError } from './http';
 
@@ -67,7 +68,7 @@ export function changeRole(userId: string, role: PlatformRole): void {
   db().update(schema.user).set({ role, updatedAt: new Date() }).where(eq(schema.user.id, userId)).run();
 }
 
-/** Deactivated users cannot sign in and lose their open sessions at once. */
+/** Deactivated users cannot sign in and lose their open sessions and sockets at once. */
 export function setActive(userId: string, active: boolean): void {
   const target = findUser(userId);
   if (!active) keepOneAdmin(target);
@@ -78,4 +79,5 @@ export function setActive(userId: string, active: boolean): void {
       .run();
     if (!active) tx.delete(schema.session).where(eq(schema.session.userId, userId)).run();
   });
+  if (!active) announceAccessChange({ kind: 'account-closed', userId, reason: 'Your account was deactivated by an administrator' });
 }

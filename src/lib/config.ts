@@ -13,6 +13,8 @@ export type Config = {
   mailFrom: string;
   authSecret: string;
   signInLimitPerMinute: number;
+  /** Off only for tests that send thousands of messages on purpose (RUNGWISE_SOCKET_LIMITS=off). */
+  socketLimits: boolean;
 };
 
 export function databasePath(): string {
@@ -36,6 +38,7 @@ export function loadConfig(): Config {
     mailFrom: process.env.MAIL_FROM ?? 'Rungwise <rungwise@localhost>',
     authSecret: process.env.BETTER_AUTH_SECRET ?? persistedSecret(dataDir),
     signInLimitPerMinute: Number(process.env.RUNGWISE_SIGNIN_LIMIT ?? 10),
+    socketLimits: process.env.RUNGWISE_SOCKET_LIMITS !== 'off',
   };
 }
 

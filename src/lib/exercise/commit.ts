@@ -2,10 +2,13 @@
  * The one way exercise state changes: inside one SQLite transaction, check the
  * idempotency key, the seat and the access rule, run the command, write the
  * numbered event (the audit log) and bump the exercise's update number. Only
- * after this returns does the hub acknowledge and broadcast.
+ * after this returns does the hub acknowledge and broadcast. A committed
+ * roster or settings change is announced to the open sockets, which ask the
+ * access rules again (src/lib/access-changes.ts).
  */
 import { db } from '../../db/client';
 import { decide, type Seat } from '../access';
+import { announceAccessChange, type AccessChange } from '../access-changes';
 import type { PlatformRole } from '../roles';
 import { COMMANDS, accessFor, deadlinePassed, type Change, type PlayContext } from './commands';
 import { stageAt } from './play';
@@ -40,7 +43,7 @@ export function commitChange(
   now = Date.now(),
   seatCheck?: (seat: Seat | null, exercise: ExerciseRow) => void,
 ): Committed | null {
-  return db().transaction((tx) => {
+  const committed = db().transaction((tx) => {
     const exercise = exerciseRow(exerciseId);
     if (!exercise) throw new IntentError('not-found', 'There is no such exercise');
     if (key) {
@@ -73,6 +76,17 @@ export function commitChange(
     queries().setSeq.run({ id: exerciseId, seq });
     return { exerciseId, seq, duplicate: false, result, change, exercise: { ...ctx.exercise, seq }, actorName: actor.name, at: now };
   });
+  const access = committed?.change ? accessChangeOf(exerciseId, committed.change) : null;
+  if (access) announceAccessChange(access);
+  return committed;
+}
+
+/** A roster change naming a person changes that person's seat; a settings change may change everyone's access. */
+function accessChangeOf(exerciseId: string, change: Change): AccessChange | null {
+  if (change.kind === 'settings') return { kind: 'exercise-access', exerciseId, userId: null };
+  const userId = change.data?.userId;
+  if (change.kind === 'roster' && typeof userId === 'string') return { kind: 'exercise-access', exerciseId, userId };
+  return null;
 }
 
 function priorCommit(exerciseId: string, key: string) {

@@ -45,6 +45,9 @@ const HEARTBEAT_MS = 10_000;
 const SILENCE_MS = 25_000;
 const LOG_KEEP = 300;
 
+/** 4400-4499 (signed out, no longer seated) and 1008 (flooding) are refusals: reconnecting cannot help. */
+const closedForGood = (code: number) => (code >= 4400 && code < 4500) || code === 1008;
+
 export class LiveClient {
   state: LiveState = { connection: 'connecting', refusal: null, snapshot: null, seq: 0, presence: { online: [] }, pending: 0, clockOffset: 0, missed: [], reconnects: 0 };
   private socket: WebSocket | null = null;
@@ -118,7 +121,7 @@ export class LiveClient {
       if (this.socket !== socket) return;
       this.socket = null;
       if (this.stopped) return;
-      if (event.code === 4403 || event.code === 1008) {
+      if (closedForGood(event.code)) {
         this.set({ connection: 'refused', refusal: event.reason || 'The server closed the connection' });
         return;
       }

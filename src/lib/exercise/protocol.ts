@@ -148,6 +148,7 @@ export type ErrorCode =
   | 'conflict'
   | 'stale-turn'
   | 'not-found'
+  | 'rate-limited'
   | 'server-error';
 
 export type FieldReason = { field: string; reason: string };

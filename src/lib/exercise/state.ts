@@ -34,6 +34,7 @@ export const HTTP_STATUS: Record<ErrorCode, number> = {
   conflict: 409,
   'stale-turn': 409,
   'not-found': 404,
+  'rate-limited': 429,
   'server-error': 500,
 };
 
