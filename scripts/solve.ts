@@ -2,7 +2,9 @@
  * npm run solve -- FILE [--exact] [--qre LAMBDA] [--all]
  *
  * FILE is a scenario document or the plain tree format (see src/lib/engine/plain.ts).
- * Prints JSON: {"method", "count", "equilibria": [{"path", "payoffs", "choices"}]} and,
+ * Prints JSON: {"method", "count", "plays", "distinctPayoffs", "equilibria": [{"path",
+ * "payoffs", "choices"}]} (count: strategy profiles; plays: distinct equilibrium plays;
+ * distinctPayoffs: how many different expected payoff vectors those plays have) and,
  * with --qre, the logit QRE behaviour at every information set. --exact computes in
  * rational arithmetic (payoffs and probabilities printed as exact strings such as "7/3");
  * --all lists every equilibrium found (up to 1000) instead of the first.
@@ -99,6 +101,9 @@ function main(args: string[]): number {
       method: result.method,
       count: result.count,
       ...(result.countExact ? {} : { countIsLowerBound: true }),
+      plays: result.plays,
+      ...(result.playsExact ? {} : { playsIsLowerBound: true }),
+      distinctPayoffs: result.distinctPayoffs,
       equilibria: result.equilibria.map((eq) => printable(eq, options.exact)),
       ...(options.qre !== undefined ? { qre: logitQre(game, { lambda: options.qre }) } : {}),
     };

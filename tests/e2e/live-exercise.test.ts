@@ -81,6 +81,10 @@ describe('e2e: a live exercise in three browsers', () => {
     await blue.getByTestId('option').first().waitFor();
     await red.getByTestId('waiting').waitFor();
     await expect.poll(() => blue.getByTestId('countdown').getAttribute('data-clock')).toBe('running');
+    // The Console's analysis leads with the one equilibrium play, not the strategy profiles.
+    await expect
+      .poll(() => facilitator.getByTestId('equilibrium-note').textContent(), { timeout: 30_000 })
+      .toBe('From the start: one equilibrium play (294,912 strategy profiles that differ only at moves off the path).');
     await chooseAndSubmit(blue, 'Hold at Naval shadowing', 'Keep the frigates on station and let Ostrakh show its hand.');
     await screenshot(blue, 'live-desk-after-move');
 

@@ -48,6 +48,7 @@ describe('e2e: writing the after-action report together', () => {
     await page.goto(`${app.url}/exercises/${exerciseId}/review`);
     await page.getByTestId('moves-table').waitFor({ timeout: 30_000 });
     expect(await page.locator('[data-caution]').first().textContent()).toContain('aid to discussion');
+    expect(await page.getByTestId('equilibrium-count').textContent()).toBe('The scenario has one equilibrium play (294,912 strategy profiles that differ only at moves off the path).');
     expect(await page.locator('[data-chart="escalation"] svg').count()).toBeGreaterThan(0);
     expect(await page.getByTestId('path-tree').locator('.react-flow__node').count()).toBeGreaterThan(3);
     expect(await page.getByTestId('timeline').locator('[data-kind="note"]').count()).toBeGreaterThan(3);

@@ -141,6 +141,9 @@ describe('e2e: authoring in the Studio', () => {
     await expect.poll(() => pathText(page), { timeout: 30_000 }).toMatch(/\S/);
     const count = await page.getByTestId('tree-count').textContent();
     expect(count).toMatch(/^\d+ of 3656 nodes shown$/);
+    expect(await page.getByTestId('equilibrium-count').textContent()).toMatch(
+      /^One equilibrium play \(294,912 strategy profiles that differ only at moves off the path\)\. Some stages off the path have whole ranges of equilibria between those counted\. · /,
+    );
     await screenshot(page, 'studio-demo-tree');
 
     await page.getByRole('tab', { name: 'Analysis' }).click();

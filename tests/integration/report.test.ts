@@ -193,6 +193,7 @@ describe('report: issue, export, send', () => {
     const text = await pdfText(await answer.arrayBuffer());
     for (const section of ['Summary', 'Hot wash', 'Timeline', 'Play against the equilibrium', 'Observer notes', 'Findings', 'Recommendations']) expect(text).toContain(section);
     expect(text).toContain('Written just before the crash');
+    expect(text).toContain('The scenario has one equilibrium play (294,912 strategy profiles that differ only at moves off the path).');
     expect(text).toContain('EXERCISE · EXERCISE · EXERCISE');
     expect(text).toContain('follows from the payoffs assumed in the scenario');
     expect(text).toContain('version 2, issued');
@@ -281,6 +282,7 @@ describe('review over HTTP', () => {
     expect(review.status).toBe(200);
     expect(review.body.review.moves).toEqual([]);
     expect(review.body.review.equilibrium.end.terminal).toBe(true);
+    expect(review.body.review.equilibrium).toMatchObject({ count: 294912, countExact: true, plays: 1, playsExact: true, distinctPayoffs: 1 });
   });
 
   it('compares the runs of the scenario', async () => {

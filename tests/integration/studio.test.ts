@@ -326,6 +326,9 @@ describe('studio: analyses in the worker pool', () => {
     expect(last.type).toBe('done');
     expect(last.result.equilibria).toHaveLength(3);
     expect(last.result.count).toBeGreaterThan(1);
+    // Ties off the path multiply the strategy profiles, not the ways of playing.
+    expect(last.result).toMatchObject({ plays: 1, playsExact: true, distinctPayoffs: 1 });
+    expect(last.result.playPayoffs[0].payoffs).toEqual(last.result.equilibria[0].payoffs);
     expect(last.result.equilibria[0].path.length).toBeGreaterThan(2);
     expect((await facilitator.json(`/api/scenarios/jobs/${started.body.jobId}`)).body.type).toBe('done');
     // A job is its starter's only.

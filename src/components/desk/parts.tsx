@@ -354,7 +354,11 @@ export function Analysis({ analysis, teams }: { analysis: AnalysisView; teams: T
                 ))}
               </ul>
               {analysis.equilibrium.outcome && <p className="mt-1 text-ink-700">Leads to: {analysis.equilibrium.outcome}</p>}
-              {analysis.equilibrium.note && <p className="mt-1 text-xs text-ink-600">{analysis.equilibrium.note}</p>}
+              {analysis.equilibrium.note && (
+                <p className="mt-1 text-xs text-ink-600" data-testid="equilibrium-note">
+                  {analysis.equilibrium.note}
+                </p>
+              )}
             </div>
           )}
           {analysis.forecast && (

@@ -8,6 +8,7 @@ import { useQuery } from '@tanstack/react-query';
 import type { ReactNode } from 'react';
 import { api, describeError } from '../../lib/client/api';
 import { escalationFigure, regretFigure } from '../../lib/report/figures';
+import { equilibriumCountSentence } from '../../lib/review/count-sentence';
 import type { EndPoint, Review } from '../../lib/review/types';
 import { FormMessage } from '../ui/Field';
 import { withQueryClient } from '../ui/QueryRoot';
@@ -159,6 +160,7 @@ function Counterfactuals({ review }: { review: Review }) {
 
 function ReviewBody({ review, csv }: { review: Review; csv: (table: string) => string }) {
   const deviations = review.moves.filter((m) => m.deviated).length;
+  const countSentence = equilibriumCountSentence(review.equilibrium);
   return (
     <div className="space-y-5">
       <div className="grid gap-3 md:grid-cols-3">
@@ -176,7 +178,11 @@ function ReviewBody({ review, csv }: { review: Review; csv: (table: string) => s
               </li>
             ))}
           </ul>
-          {review.equilibrium.count > 1 && <p className="mt-1 text-xs text-ink-600">The scenario has {review.equilibrium.count.toLocaleString('en-GB')} subgame-perfect equilibria; the first is shown.</p>}
+          {countSentence && (
+            <p className="mt-1 text-xs text-ink-600" data-testid="equilibrium-count">
+              {countSentence}
+            </p>
+          )}
         </div>
       </div>
 

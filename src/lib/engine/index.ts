@@ -13,9 +13,11 @@ export { compile, compiledGame, isPerfectInformation, CHANCE, TERMINAL, type Fla
 export { buildLadder, checkLadder, LadderSpecSchema, type LadderSpec, type BuiltLadder } from './ladder';
 export { stageAt, advance, drawChance, simultaneousStage, PlayError, type Stage, type Moves, type ActionView, type RungView, type StageMover } from './play';
 export { mulberry32, type Rng } from './rng';
-export { actionValues, equilibriumPath, type Equilibrium, type NodeActionValues, type ActionValue, type PathStep } from './profile';
+export { actionValues, equilibriumPath, reachesNode, type Equilibrium, type NodeActionValues, type ActionValue, type PathStep } from './profile';
 export { backwardInduction, solveFlat, NO_CHOICE, type BackwardInductionResult, type DecisionAnalysis, type FlatSolution } from './solvers/backward-induction';
 export { solveSubgamePerfect, type SubgamePerfectResult, type StageCounts } from './solvers/subgame-perfect';
+export { PLAY_PAYOFFS_LISTED, type EquilibriumPlays, type PlayPayoffs } from './enumeration';
+export { equilibriumCountPhrase, equilibriumCountWords, equilibriumCounts, hasSeveralPlays, type EquilibriumCounts } from './count-words';
 export { supportEnumeration, type BimatrixGame, type MixedEquilibrium, type SupportEnumerationResult } from './solvers/support-enumeration';
 export { MethodDoesNotApply } from './solvers/pure-enumeration';
 export { RayTermination } from './solvers/sequence-form';

@@ -6,7 +6,8 @@
  */
 import { CHANCE, TERMINAL, compiledGame, edgeLabel, sourceOf, type FlatGame } from './compile';
 import type { DecisionNode, Game } from './model';
-import { exactField, floatField, toExact, type Field } from './numbers';
+import { exactField, floatField, toExact, toFloat, type Field } from './numbers';
+import { choiceKey, indexGame } from './tree';
 
 export interface Equilibrium {
   /** Labels from the root along the most probable play (see playPath). */
@@ -226,4 +227,17 @@ function nodeActionValues<T>(flat: FlatGame, field: Field<T>, eq: Equilibrium, n
     };
   });
   return { nodeId, team: node.team, equilibriumAction: actions[argmax(field, probs)]!.label, actions };
+}
+
+/** Whether play under the equilibrium reaches the node with positive probability (every chance branch counts). */
+export function reachesNode(game: Game, eq: Equilibrium, nodeId: string): boolean {
+  const index = indexGame(game);
+  const node = index.byId.get(nodeId);
+  if (!node) throw new Error(`no node with id "${nodeId}"`);
+  for (let link = index.parentOf.get(node); link; link = index.parentOf.get(link.parent)) {
+    const { parent, label } = link;
+    const p = parent.kind === 'decision' ? (eq.choices[choiceKey(parent)]?.[label] ?? 0) : parent.kind === 'chance' ? toFloat(parent.outcomes[link.edge]!.p) : 0;
+    if (!(p > 0)) return false;
+  }
+  return true;
 }

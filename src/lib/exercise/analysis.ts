@@ -5,13 +5,30 @@
  * (so live play never waits on a solve), and kept in memory. Until a solve is
  * done the section says "computing"; the hub sends the result when it is in.
  */
-import { childEdges, type Game, type GameNode, toFloat, actionValues, type Equilibrium, payoffScorer, logitQre, type QreResult, solveSubgamePerfect, type SubgamePerfectResult } from '../engine';
+import {
+  childEdges,
+  type Game,
+  type GameNode,
+  toFloat,
+  actionValues,
+  type Equilibrium,
+  payoffScorer,
+  logitQre,
+  type QreResult,
+  solveSubgamePerfect,
+  type SubgamePerfectResult,
+  equilibriumCountPhrase,
+  equilibriumCounts,
+  hasSeveralPlays,
+  reachesNode,
+  type EquilibriumCounts,
+} from '../engine';
 import { lookup, shared } from '../runtime';
 import { isMoving, nodeAt, type Stage } from './play';
 import type { ScenarioInfo } from './scenario-info';
 import { ANALYSIS_CAUTION, type AnalysisView, type EquilibriumAdvice, type ForecastView } from './view';
 
-export type Solved = { equilibrium: Equilibrium | null; equilibriumNote: string | null; qre: QreResult | null };
+export type Solved = { equilibrium: Equilibrium | null; counts: EquilibriumCounts; qre: QreResult | null };
 /** A solved version, with the view of each node worked out once (every viewer may share it). */
 type Entry = { status: 'computing' } | { status: 'failed'; message: string } | ({ status: 'ready'; views?: Map<string, AnalysisView> } & Solved);
 
@@ -50,10 +67,20 @@ function safeQre(game: Game, lambda: number): QreResult | null {
 }
 
 function readSolved(result: SubgamePerfectResult, qre: QreResult | null): Solved {
-  const equilibrium = result.equilibria[0] ?? null;
-  const equilibriumNote =
-    result.count > 1 ? `One of ${result.countExact ? '' : 'at least '}${result.count.toLocaleString('en-GB')} subgame-perfect equilibria (ties or mixed play); others may differ.` : null;
-  return { equilibrium, equilibriumNote, qre };
+  return { equilibrium: result.equilibria[0] ?? null, counts: equilibriumCounts(result), qre };
+}
+
+/**
+ * What the advice at a node stands for. The counts are of the whole scenario; where play
+ * has left the equilibrium path, ties among the profiles may allow other moves from here.
+ */
+export function equilibriumNote(counts: EquilibriumCounts, onPath: boolean): string | null {
+  if (counts.count === 1 && counts.countExact) return null;
+  const words = `From the start: ${equilibriumCountPhrase(counts)}`;
+  const several = hasSeveralPlays(counts) ? '; the advice follows the first, others may differ' : '';
+  const tiesOffPath = !counts.countExact || counts.count > counts.plays;
+  const left = !onPath && tiesOffPath ? ' Play has left that path, where those profiles may differ: other moves from here may be just as rational.' : '';
+  return `${words}${several}.${left}`;
 }
 
 const likeliest = (probabilities: Record<string, number>): string =>
@@ -74,7 +101,7 @@ function followEquilibrium(from: GameNode, eq: Equilibrium): GameNode {
   return node;
 }
 
-function advice(game: Game, stage: Extract<Stage, { movers: unknown }>, eq: Equilibrium, note: string | null): EquilibriumAdvice {
+function advice(game: Game, stage: Extract<Stage, { movers: unknown }>, eq: Equilibrium, counts: EquilibriumCounts): EquilibriumAdvice {
   const actions: EquilibriumAdvice['actions'] = [];
   let node = nodeAt(game, stage.nodeId);
   for (const mover of stage.movers) {
@@ -93,7 +120,7 @@ function advice(game: Game, stage: Extract<Stage, { movers: unknown }>, eq: Equi
     actions,
     outcome: end.kind === 'terminal' ? (end.outcome ?? end.id) : null,
     payoffs: payoffs ? Object.fromEntries(game.teams.map((team, i) => [team.id, payoffs[i]!.valueOf().toFixed(2)])) : null,
-    note,
+    note: equilibriumNote(counts, reachesNode(game, eq, stage.nodeId)),
   };
 }
 
@@ -113,7 +140,7 @@ export function analysisAt(scenario: ScenarioInfo, stage: Stage, lambda: number)
   const ready: AnalysisView = {
     ...base,
     status: 'ready',
-    equilibrium: entry.equilibrium ? advice(scenario.game, stage, entry.equilibrium, entry.equilibriumNote) : null,
+    equilibrium: entry.equilibrium ? advice(scenario.game, stage, entry.equilibrium, entry.counts) : null,
     forecast: entry.qre ? forecast(stage, entry.qre, lambda) : null,
   };
   views.set(stage.nodeId, ready);

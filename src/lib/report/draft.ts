@@ -4,7 +4,7 @@
  * the observer notes, and empty sections for people to write: hot wash,
  * findings, recommendations.
  */
-import type { MoveReview, Review } from '../review';
+import { equilibriumCountSentence, type MoveReview, type Review } from '../review';
 import { counterfactualTable, escalationFigure, movesTable, regretFigure, teamsTable } from './figures';
 import type { JSONContent } from './schema';
 
@@ -39,9 +39,11 @@ function summary(ctx: DraftContext): JSONContent[] {
   const worst = deviations.reduce<MoveReview | null>((top, m) => ((m.regret ?? 0) > (top?.regret ?? -Infinity) ? m : top), null);
   const lambdas = review.fits.filter((f) => f.lambda !== null).map((f) => `${f.team} ${formatNumber(f.lambda!)}`);
   const played = review.actual.terminal ? `ended at “${ending(review.actual)}”` : 'is still under way';
+  const countSentence = equilibriumCountSentence(review.equilibrium);
   const sentences = [
     `The exercise ${review.title} ran on the scenario ${ctx.scenarioTitle} from ${when(ctx.startedAt)} to ${when(ctx.endedAt)}, with ${review.teams.map((t) => t.name).join(', ')}.`,
-    `Play took ${review.moves.length} moves and ${played}. Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”${review.equilibrium.count > 1 ? ` (one of ${review.equilibrium.count.toLocaleString('en-GB')} subgame-perfect equilibria)` : ''}.`,
+    `Play took ${review.moves.length} moves and ${played}. Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”.`,
+    ...(countSentence ? [countSentence] : []),
     deviations.length === 0
       ? 'Every move followed the equilibrium.'
       : `Teams left the equilibrium ${deviations.length} time${deviations.length === 1 ? '' : 's'}.` +

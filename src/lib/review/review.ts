@@ -7,6 +7,7 @@ import type { AdjudicatedEnding, PlayedMove, PlayRecord } from '../exercise/reco
 import {
   actionValues,
   choiceKey,
+  equilibriumCounts,
   indexGame,
   nodeById,
   payoffScorer,
@@ -83,7 +84,7 @@ export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOption
     title: record.title,
     state: record.state,
     teams: game.teams.map((t) => ({ id: t.id, name: t.name })),
-    equilibrium: { method: solved.method, count: solved.count, countExact: solved.countExact, end: endPoint(ctx, equilibriumLine) },
+    equilibrium: { method: solved.method, ...equilibriumCounts(solved), end: endPoint(ctx, equilibriumLine) },
     actual: ended?.actual ?? endPoint(ctx, played),
     ending: ended?.review ?? null,
     moves,

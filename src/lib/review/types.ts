@@ -1,6 +1,7 @@
 /** What Review computes for one exercise: plain data, ready for JSON, charts, CSV and the report. */
 import type { InjectRecord, ObserverNote, PlayedMoveKind } from '../exercise/record';
 import type { ExerciseState } from '../roles';
+import type { EquilibriumCounts } from './engine';
 
 export type RungRef = { index: number; key: string; name: string; intensity: number };
 
@@ -130,7 +131,8 @@ export type Review = {
   title: string;
   state: ExerciseState;
   teams: TeamRef[];
-  equilibrium: { method: string; count: number; countExact: boolean; end: EndPoint };
+  /** How the equilibrium was solved, how many plays and strategy profiles it has, and where its path ends. */
+  equilibrium: EquilibriumCounts & { method: string; end: EndPoint };
   actual: EndPoint;
   /** Set when the facilitator ended play at an outcome by adjudication. */
   ending: EndingReview | null;

@@ -39,6 +39,9 @@ describe('npm run solve', () => {
     expect(out.method).toBe('backward induction (exact)');
     // Red is indifferent; if Red yields, Blue waits (5/4 > 1); if Red resists, Blue probes (2 > 5/4).
     expect(out.count).toBe(2);
+    // Both equilibria play differently (Wait, or Probe then Resist), worth (5/4, 1) and (2, 0).
+    expect(out).toMatchObject({ plays: 2, distinctPayoffs: 2 });
+    expect(out.playsIsLowerBound).toBeUndefined();
     expect(out.equilibria).toEqual([
       { path: ['Wait', 'Calm'], payoffs: ['5/4', '1'], choices: { n: { Probe: '0', Wait: '1' }, 'n.probe': { Yield: '1', Resist: '0' } } },
       { path: ['Probe', 'Resist'], payoffs: ['2', '0'], choices: { n: { Probe: '1', Wait: '0' }, 'n.probe': { Yield: '0', Resist: '1' } } },

@@ -1,12 +1,23 @@
 /**
  * Property tests on random games (fast-check): the one-shot deviation principle holds at
- * every node of every reported equilibrium, exact and float modes agree, the count of
- * pure subgame-perfect equilibria matches brute force, support enumeration results meet
- * the best-response conditions, and Lemke's sequence-form result is a Nash equilibrium.
+ * every node of every reported equilibrium, exact and float modes agree, the counts of
+ * pure subgame-perfect equilibria and of their distinct plays match brute force (also
+ * through the subgame roll-up), support enumeration results meet the best-response
+ * conditions, and Lemke's sequence-form result is a Nash equilibrium.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { actionValues, backwardInduction, childEdges, indexGame, solveFlat, supportEnumeration, type Game, type GameNode } from '../../../src/lib/engine';
+import {
+  actionValues,
+  backwardInduction,
+  indexGame,
+  PLAY_PAYOFFS_LISTED,
+  solveFlat,
+  solveSubgamePerfect,
+  supportEnumeration,
+  type Game,
+  type GameNode,
+} from '../../../src/lib/engine';
 import { compiledGame } from '../../../src/lib/engine/compile';
 import { Fraction, exactField, floatField, toExact } from '../../../src/lib/engine/numbers';
 import { reducedValues } from '../../../src/lib/engine/reduced';
@@ -14,7 +25,7 @@ import { solveFlatWith } from '../../../src/lib/engine/solvers/backward-inductio
 import { bestResponseValue } from '../../../src/lib/engine/solvers/pure-enumeration';
 import { sequenceFormEquilibrium } from '../../../src/lib/engine/solvers/sequence-form';
 import { numbersOf } from '../../../src/lib/engine/profile';
-import { plain, wholeGame } from './helpers';
+import { bruteForceEquilibria, plain, wholeGame } from './helpers';
 
 const TEAMS = ['A', 'B', 'C'];
 
@@ -31,17 +42,25 @@ function tree(teams: number, depth: number): fc.Arbitrary<Plain> {
   const decision = fc
     .record({ team: fc.integer({ min: 0, max: teams - 1 }), children: fc.array(child, { minLength: 1, maxLength: 3 }) })
     .map(({ team, children }): Plain => ({ team: TEAMS[team]!, actions: children.map((next, k) => ({ label: `a${k}`, next })) }));
-  const chance = fc.array(fc.tuple(fc.integer({ min: 1, max: 4 }), child), { minLength: 1, maxLength: 3 }).map((outcomes): Plain => {
-    const total = outcomes.reduce((s, [w]) => s + w, 0);
-    return { chance: outcomes.map(([w, next], k) => ({ label: `c${k}`, p: `${w}/${total}`, next })) };
+  // Weights from 0: an outcome of probability zero is never reached.
+  const chance = fc.array(fc.tuple(fc.integer({ min: 0, max: 4 }), child), { minLength: 1, maxLength: 3 }).map((outcomes): Plain => {
+    const weights = outcomes.map(([w], k) => (k === 0 ? Math.max(w, 1) : w));
+    const total = weights.reduce((s, w) => s + w, 0);
+    return { chance: outcomes.map(([, next], k) => ({ label: `c${k}`, p: `${weights[k]}/${total}`, next })) };
   });
   return fc.oneof({ weight: 1, arbitrary: leaf(teams) }, { weight: 3, arbitrary: decision }, { weight: 1, arbitrary: chance });
 }
 
-const games = fc.integer({ min: 2, max: 3 }).chain((teams) => tree(teams, 4).map((root) => plain(TEAMS.slice(0, teams), root)));
+const trees = fc.integer({ min: 2, max: 3 }).chain((teams) => tree(teams, 4).map((root) => ({ teams: TEAMS.slice(0, teams), root })));
+const games = trees.map(({ teams, root }) => plain(teams, root));
 
 function decisionNodes(game: Game): GameNode[] {
   return indexGame(game).nodes.filter((n) => n.kind === 'decision');
+}
+
+/** Number of pure strategy profiles: the product of the action counts of the decision nodes. */
+function profileCount(game: Game): number {
+  return (decisionNodes(game) as Extract<GameNode, { kind: 'decision' }>[]).reduce((n, d) => n * d.actions.length, 1);
 }
 
 describe('backward induction on random perfect-information trees', () => {
@@ -82,42 +101,64 @@ describe('backward induction on random perfect-information trees', () => {
   it('counts exactly the pure strategy profiles that are subgame perfect (brute force on small trees)', () => {
     fc.assert(
       fc.property(games, (game) => {
-        const decisions = decisionNodes(game) as Extract<GameNode, { kind: 'decision' }>[];
-        const profiles = decisions.reduce((n, d) => n * d.actions.length, 1);
-        fc.pre(profiles <= 2048);
-        const teamIndex = new Map(game.teams.map((t, i) => [t.id, i]));
-        let count = 0;
-        const picks = decisions.map(() => 0);
-        const choice = new Map<GameNode, number>();
-        for (;;) {
-          decisions.forEach((d, k) => choice.set(d, picks[k]!));
-          const values = new Map<GameNode, Fraction[]>();
-          const valueOf = (node: GameNode): Fraction[] => {
-            const known = values.get(node);
-            if (known) return known;
-            let v: Fraction[];
-            if (node.kind === 'terminal') v = game.teams.map((t) => toExact(node.payoffs![t.id]!));
-            else if (node.kind === 'chance') {
-              v = game.teams.map(() => new Fraction(0));
-              for (const o of node.outcomes) valueOf(o.next).forEach((x, t) => (v[t] = v[t]!.add(x.mul(toExact(o.p)))));
-            } else v = valueOf(node.actions[choice.get(node)!]!.next);
-            values.set(node, v);
-            return v;
-          };
-          const perfect = decisions.every((d) => {
-            const m = teamIndex.get(d.team)!;
-            const mine = valueOf(d)[m]!;
-            return childEdges(d).every((e) => valueOf(e.next)[m]!.compare(mine) <= 0);
-          });
-          if (perfect) count++;
-          let k = picks.length - 1;
-          while (k >= 0 && picks[k]! + 1 >= decisions[k]!.actions.length) picks[k--] = 0;
-          if (k < 0) break;
-          picks[k]!++;
-        }
-        expect(backwardInduction(game, { exact: true }).count).toBe(count);
+        fc.pre(profileCount(game) <= 2048);
+        expect(backwardInduction(game, { exact: true }).count).toBe(bruteForceEquilibria(game).length);
       }),
       { numRuns: 150 },
+    );
+  });
+
+  it('counts exactly the distinct plays and their distinct payoffs, in both modes (brute force on small trees)', () => {
+    fc.assert(
+      fc.property(games, (game) => {
+        fc.pre(profileCount(game) <= 2048);
+        const profiles = bruteForceEquilibria(game);
+        const plays = new Set(profiles.map((p) => p.play));
+        const payoffs = new Set(profiles.map((p) => p.payoffs.join(',')));
+        for (const exact of [true, false]) {
+          const result = backwardInduction(game, { exact, maxListed: 1 });
+          expect(result.plays).toBe(plays.size);
+          expect(result.playsExact).toBe(true);
+          expect(result.distinctPayoffs).toBe(payoffs.size);
+          expect(result.playPayoffs).toHaveLength(Math.min(payoffs.size, PLAY_PAYOFFS_LISTED));
+          if (payoffs.size <= PLAY_PAYOFFS_LISTED) expect(result.playPayoffs.reduce((n, p) => n + p.plays, 0)).toBe(plays.size);
+        }
+        const exact = backwardInduction(game, { exact: true, maxListed: 1 });
+        for (const p of exact.playPayoffs) {
+          const key = p.payoffsExact!.join(',');
+          expect(p.plays).toBe(new Set(profiles.filter((q) => q.payoffs.join(',') === key).map((q) => q.play)).size);
+        }
+        expect(exact.playPayoffs[0]!.payoffsExact).toEqual(exact.equilibria[0]!.payoffsExact);
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it('the subgame roll-up counts the same plays when an unreached simultaneous stage makes the game imperfect', () => {
+    fc.assert(
+      fc.property(trees, ({ teams, root }) => {
+        const game = plain(teams, root);
+        fc.pre(profileCount(game) <= 2048);
+        const profiles = bruteForceEquilibria(game);
+        // A takes the random tree (worth at least -3 to A) over a stage worth at most -100
+        // to A, with one equilibrium (Hold, Push) by strict dominance: the stage is off the path.
+        const worth = (a: number) => teams.map((_, t) => (t === 0 ? -100 - a : a));
+        const stage = {
+          team: 'A',
+          actions: ['Hold', 'Push'].map((r, i) => ({
+            label: r,
+            next: { team: 'B', infoset: 'stage', actions: ['Hold', 'Push'].map((c, j) => ({ label: c, next: { payoffs: worth(i + 2 * j) } })) },
+          })),
+        };
+        const wrapped = plain(teams, { team: 'A', actions: [{ label: 'Tree', next: root }, { label: 'Stage', next: stage }] });
+        const result = solveSubgamePerfect(wrapped, { exact: true });
+        expect(result.method).toMatch(/roll-up/);
+        expect(result.count).toBe(profiles.length);
+        expect(result.plays).toBe(new Set(profiles.map((p) => p.play)).size);
+        expect(result.playsExact).toBe(true);
+        expect(result.distinctPayoffs).toBe(new Set(profiles.map((p) => p.payoffs.join(','))).size);
+      }),
+      { numRuns: 100 },
     );
   });
 });

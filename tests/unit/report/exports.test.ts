@@ -7,7 +7,7 @@ import { reportPdf } from '../../../src/lib/report/render/pdf';
 import { splitBySubset } from '../../../src/lib/report/render/fonts';
 import type { JSONContent } from '../../../src/lib/report/schema';
 import { reviewPlay } from '../../../src/lib/review';
-import { LADDER, playRecord } from '../review/fixtures';
+import { LADDER, ladderVariant, playRecord } from '../review/fixtures';
 
 const record = playRecord(LADDER, [['b', 'Raise'], ['w', 'Calm'], ['r', 'Match']], {
   title: 'Harbour drill',
@@ -40,6 +40,16 @@ describe('the first draft', () => {
     ]);
     expect(JSON.stringify(draft)).toContain('Red matched the closure within a minute');
     expect(JSON.stringify(draft)).toContain('These comparisons follow from the payoffs the scenario assumed');
+  });
+
+  it('says how many equilibrium plays there are, the strategy profiles after them', () => {
+    expect(JSON.stringify(draft)).not.toContain('strategy profiles');
+    // Red's tie lies off the path (Blue holds for 3): one play, two profiles.
+    const tied = ladderVariant({ hold: [3, 1], match: [-2, -1] });
+    const tiedRecord = playRecord(tied, [['b', 'Hold']]);
+    const tiedDraft = firstDraft({ review: reviewPlay(tied, tiedRecord), scenarioTitle: 'Two harbours', startedAt: tiedRecord.startedAt, endedAt: tiedRecord.endedAt });
+    const summary = JSON.stringify(tiedDraft);
+    expect(summary).toContain('subgame-perfect play ends at “Talks”. The scenario has one equilibrium play (2 strategy profiles that differ only at moves off the path).');
   });
 });
 

@@ -89,6 +89,17 @@ export const LADDER: Game = {
   },
 };
 
+/** LADDER with other payoffs for Blue's Hold and Red's Match (Blue's, Red's). */
+export function ladderVariant(payoffs: { hold: [number, number]; match: [number, number] }): Game {
+  const game = structuredClone(LADDER);
+  const set = (node: GameNode | undefined, [a, b]: [number, number]) => {
+    if (node?.kind === 'terminal') node.payoffs = { first: a, second: b };
+  };
+  set(find(game.root, 'b.hold'), payoffs.hold);
+  set(find(game.root, 'r.match'), payoffs.match);
+  return game;
+}
+
 /** A play record of `game` along the given (node id, label) pairs. */
 export function playRecord(game: Game, line: [string, string][], extra: Partial<PlayRecord> = {}): PlayRecord {
   const moves: PlayedMove[] = line.map(([nodeId, label], k) => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { PlayMismatch, reviewPlay } from '../../../src/lib/review';
-import { CENTIPEDE, ENTRY, LADDER, playRecord } from './fixtures';
+import { equilibriumCountSentence, PlayMismatch, reviewPlay } from '../../../src/lib/review';
+import { CENTIPEDE, ENTRY, LADDER, ladderVariant, playRecord } from './fixtures';
 
 const logistic = (x: number) => 1 / (1 + Math.exp(-x));
 
@@ -153,3 +153,30 @@ describe('review of a ladder with a chance node (hand-made check, no source)', (
     expect(() => reviewPlay(LADDER, bad)).toThrow(/chose "Invade", which node "b" does not offer/);
   });
 });
+
+describe('the equilibrium count of a review (hand-made checks, no source)', () => {
+  it('says nothing when the equilibrium is unique', () => {
+    const review = reviewPlay(LADDER, playRecord(LADDER, [['b', 'Hold']]));
+    expect(review.equilibrium).toMatchObject({ count: 1, plays: 1, distinctPayoffs: 1 });
+    expect(equilibriumCountSentence(review.equilibrium)).toBeNull();
+  });
+
+  it('leads with the one play when a tie lies off the path', () => {
+    // Red is tied (-1 = -1) but Blue holds for 3 whatever Red would do: 2 profiles, 1 play.
+    const game = ladderVariant({ hold: [3, 1], match: [-2, -1] });
+    const review = reviewPlay(game, playRecord(game, [['b', 'Hold']]));
+    expect(review.equilibrium).toMatchObject({ count: 2, countExact: true, plays: 1, playsExact: true, distinctPayoffs: 1 });
+    expect(equilibriumCountSentence(review.equilibrium)).toBe('The scenario has one equilibrium play (2 strategy profiles that differ only at moves off the path).');
+  });
+
+  it('counts two plays with different payoffs when the tie decides the path', () => {
+    // Red tied: if Red backs down Blue raises (3/4 x 3 = 9/4 > 1), if Red matches Blue holds.
+    const game = ladderVariant({ hold: [1, 1], match: [-2, -1] });
+    const review = reviewPlay(game, playRecord(game, [['b', 'Hold']]));
+    expect(review.equilibrium).toMatchObject({ count: 2, plays: 2, distinctPayoffs: 2 });
+    expect(equilibriumCountSentence(review.equilibrium)).toBe(
+      'The scenario has 2 distinct equilibrium plays, with 2 different expected payoffs for the teams; the comparison uses the first.',
+    );
+  });
+});
+

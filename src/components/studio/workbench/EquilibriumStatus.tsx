@@ -1,7 +1,8 @@
 /** The subgame-perfect equilibria of the document: progress while computing, then the path and the switch between equilibria. */
 import { useWorkbench } from './context';
 import { AnalysisCaution } from './fields';
-import { count, formatNumber } from './format';
+import { formatNumber } from './format';
+import { equilibriumCountWords, hasSeveralPlays, type SubgamePerfectResult } from '../../../lib/engine';
 import { ProgressBar } from '../analysis/ProgressBar';
 
 export function EquilibriumStatus() {
@@ -31,9 +32,8 @@ export function EquilibriumStatus() {
       {equilibria.status === 'done' && equilibrium && (
         <>
           {faults.length > 0 && <p className="text-xs text-bronze-800">Shown for the last version without faults.</p>}
-          <p className="text-xs text-ink-600">
-            {equilibria.result.countExact ? count(equilibria.result.count, 'subgame-perfect equilibrium', 'subgame-perfect equilibria') : `at least ${count(equilibria.result.count, 'subgame-perfect equilibrium', 'subgame-perfect equilibria')}`}
-            {equilibria.result.continua ? ' (some stages have whole ranges of equilibria between those listed)' : ''} · {equilibria.result.method} · {equilibria.seconds.toFixed(2)} s
+          <p className="text-xs text-ink-600" data-testid="equilibrium-count">
+            {equilibriumCountWords(equilibria.result)}.{continuaWords(equilibria.result)} · {equilibria.result.method} · {equilibria.seconds.toFixed(2)} s
           </p>
           {equilibria.result.equilibria.length > 1 && (
             <label className="flex items-center gap-2 text-sm">
@@ -41,7 +41,7 @@ export function EquilibriumStatus() {
               <select className="field-input w-auto py-1" value={equilibriumIndex} onChange={(e) => setEquilibriumIndex(Number(e.target.value))} aria-label="Equilibrium shown">
                 {equilibria.result.equilibria.map((_, i) => (
                   <option key={i} value={i}>
-                    equilibrium {i + 1} of {equilibria.result.equilibria.length} listed
+                    strategy profile {i + 1} of {equilibria.result.equilibria.length} listed{hasSeveralPlays(equilibria.result) ? '' : ' (same play)'}
                   </option>
                 ))}
               </select>
@@ -60,4 +60,9 @@ export function EquilibriumStatus() {
       )}
     </section>
   );
+}
+
+function continuaWords(result: SubgamePerfectResult): string {
+  if (!result.continua) return '';
+  return result.playsExact ? ' Some stages off the path have whole ranges of equilibria between those counted.' : ' Some stages have whole ranges of equilibria between those counted.';
 }

@@ -5,7 +5,8 @@
  *    per-node objects); ties within a relative 1e-9 count as ties;
  *  - exact: the same induction in rational arithmetic.
  * With ties there are several pure subgame-perfect equilibria: the solver counts them all
- * (by the distinct value vectors each subtree can produce) and lists the first K in a
+ * (by the distinct value vectors each subtree can produce), counts the distinct plays they
+ * make (ties off the path multiply equilibria, not plays), and lists the first K in a
  * fixed order (earlier actions first).
  */
 import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, sourceOf, type FlatGame } from '../compile';
@@ -15,9 +16,11 @@ import {
   advanceOdometer,
   chanceSummary,
   decisionSummary,
+  equilibriumPlays,
   expectation,
   singleSummary,
   summaryTotal,
+  type EquilibriumPlays,
   type Summary,
 } from '../enumeration';
 import { actionCount, numbersOf, toEquilibrium, type Behaviour, type Equilibrium } from '../profile';
@@ -138,7 +141,7 @@ export interface DecisionAnalysis {
   marginExact?: string | null;
 }
 
-export interface BackwardInductionResult {
+export interface BackwardInductionResult extends EquilibriumPlays {
   method: string;
   exact: boolean;
   /** Number of pure subgame-perfect equilibria. */
@@ -173,6 +176,7 @@ export function backwardInduction(game: Game, options: BackwardInductionOptions 
     exact: false,
     count: 1,
     countExact: true,
+    ...equilibriumPlays(floatField, singleSummary(rowOf(0)), true, rowOf(0)),
     equilibria: [toEquilibrium(flat, floatField, behaviour, rowOf(0))],
     decisions: analyseDecisions(flat, floatField, rowOf, (i) => kernel.choice[i]!),
   };
@@ -220,6 +224,7 @@ function induce<T>(flat: FlatGame, field: Field<T>, maxListed: number, method: s
     exact: field.exact,
     count,
     countExact,
+    ...equilibriumPlays(field, summaries[0]!, true, entries[0]![0]!.value),
     equilibria: listed.map((behaviour, j) => toEquilibrium(flat, field, behaviour, entries[0]![j]!.value)),
     decisions: analyseDecisions(flat, field, rowOf, (i) => first[flat.aux[i]!]!.findIndex((p) => field.cmp(p, field.one) === 0)),
   };

@@ -7,8 +7,9 @@
  *  - any other two-team part: one equilibrium by Lemke's algorithm on the sequence form;
  *  - more than two teams: pure equilibria by enumeration when the part is small.
  * The equilibria of the parts combine into subgame-perfect equilibria; they are counted
- * by distinct values and the first K are listed. Perfect-information games go to
- * backward induction directly.
+ * by distinct values, as strategy profiles and as distinct plays (what happens on the
+ * path), and the first K are listed. Perfect-information games go to backward induction
+ * directly.
  */
 import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, parentsOf, type FlatGame } from '../compile';
 import type { Game } from '../model';
@@ -18,8 +19,11 @@ import {
   advanceOdometer,
   chanceSummary,
   decisionSummary,
+  emptySummary,
+  equilibriumPlays,
   singleSummary,
   summaryTotal,
+  type EquilibriumPlays,
   type Summary,
 } from '../enumeration';
 import { numbersOf, toEquilibrium, type Behaviour, type Equilibrium } from '../profile';
@@ -44,13 +48,14 @@ export interface StageCounts {
   pure: number;
 }
 
-export interface SubgamePerfectResult {
+export interface SubgamePerfectResult extends EquilibriumPlays {
   method: string;
   exact: boolean;
+  /** Number of subgame-perfect equilibria (strategy profiles; in mixed stages, the extreme equilibria). */
   count: number;
   /** False when the count is a lower bound: Lemke's method finds one equilibrium of a part, pure enumeration only pure ones, or caps were reached. */
   countExact: boolean;
-  /** True when some simultaneous stage is degenerate: it then has continua of equilibria between the listed extreme ones. */
+  /** True when some simultaneous stage has continua of equilibria between the listed extreme ones (which alone are counted). */
   continua: boolean;
   stages: StageCounts;
   equilibria: Equilibrium[];
@@ -67,6 +72,10 @@ export function solveSubgamePerfect(game: Game, options: SubgamePerfectOptions =
       exact: bi.exact,
       count: bi.count,
       countExact: bi.countExact,
+      plays: bi.plays,
+      playsExact: bi.playsExact,
+      playPayoffs: bi.playPayoffs,
+      distinctPayoffs: bi.distinctPayoffs,
       continua: false,
       stages: { decision: decisions, chance: 0, simultaneous: 0, sequenceForm: 0, pure: 0 },
       equilibria: bi.equilibria,
@@ -87,6 +96,7 @@ function report<T>(flat: FlatGame, field: Field<T>, maxListed: number): SubgameP
     exact: field.exact,
     count: roll.count,
     countExact: roll.countExact,
+    ...roll.plays,
     continua: roll.continua,
     stages: roll.stages,
     equilibria: roll.behaviours.map((b, j) => toEquilibrium(flat, field, b, roll.rootValues[j])),
@@ -120,6 +130,7 @@ interface RollUp<T> {
   rootValues: T[][];
   count: number;
   countExact: boolean;
+  plays: EquilibriumPlays;
   continua: boolean;
   stages: StageCounts;
 }
@@ -150,7 +161,7 @@ function rollUp<T>(flat: FlatGame, field: Field<T>, numbers: { payoff: T[]; prob
     const part: Part<T> = { leaves, entries: solver.list(maxListed), summary: solver.count() };
     stages[solver.kind]++;
     complete &&= solver.complete;
-    continua ||= solver.degenerate;
+    continua ||= solver.continuum;
     parts[i] = part;
   }
   const top = parts[0]!;
@@ -161,6 +172,7 @@ function rollUp<T>(flat: FlatGame, field: Field<T>, numbers: { payoff: T[]; prob
     rootValues: top.entries.map((e) => e.value),
     count,
     countExact: complete && !top.summary!.truncated && Number.isSafeInteger(count),
+    plays: equilibriumPlays(field, top.summary!, complete, top.entries[0]!.value),
     continua,
     stages,
   };
@@ -303,13 +315,19 @@ function reducedGame<T>(flat: FlatGame, prob: T[], roots: Uint8Array, root: numb
 
 type PartKind = keyof StageCounts;
 
+/** A part's equilibria for one set of leaf values, and whether a continuum of equilibria lies between them. */
+interface Solved<T> {
+  solutions: ReducedSolution<T>[];
+  continuum: boolean;
+}
+
 /** Solves one reduced game for given leaf values, and combines nested equilibria. */
 class PartSolver<T> {
   readonly kind: PartKind;
   complete = true;
-  degenerate = false;
+  continuum = false;
   private readonly leafNodes: number[];
-  private readonly cache = new Map<string, ReducedSolution<T>[]>();
+  private readonly cache = new Map<string, Solved<T>>();
 
   constructor(
     private readonly field: Field<T>,
@@ -329,20 +347,25 @@ class PartSolver<T> {
     const out: Entry<T>[] = [];
     for (;;) {
       const values = lists.map((l, k) => l[picks[k]!]!.value);
-      for (const solution of this.solve(values)) {
+      for (const solution of this.solve(values).solutions) {
         if (out.length < maxListed) out.push({ value: solution.value, profile: solution.profile, picks: [...picks] });
       }
       if (out.length >= maxListed || !advanceOdometer(picks, sizes)) return out;
     }
   }
 
-  /** Distinct values of this part's equilibria with their counts. */
+  /**
+   * Distinct values of this part's equilibria with their counts and plays. A play of the
+   * part is its behaviour where it reaches plus a play of each nested part it reaches:
+   * combinations that differ only in nested parts it does not reach are one play.
+   */
   count(): Summary<T> {
     const nested = this.leaves.map((leaf) => this.parts[leaf]!.summary!);
     const root = this.game.nodes[0]!;
     if (this.kind === 'decision') return decisionSummary(this.field, root.team!, nested);
     if (this.kind === 'chance') return chanceSummary(this.field, nested, root.probs!);
-    const out: Summary<T> = { values: [], counts: [], truncated: nested.some((s) => s.truncated) || undefined };
+    const out = emptySummary<T>(nested.some((s) => s.truncated));
+    const seen = new Set<string>();
     const sizes = nested.map((s) => s.values.length);
     const picks = nested.map(() => 0);
     for (let tried = 0; ; tried++) {
@@ -352,20 +375,38 @@ class PartSolver<T> {
       }
       const values = nested.map((s, k) => s.values[picks[k]!]!);
       const weight = nested.reduce((n, s, k) => n * s.counts[picks[k]!]!, 1);
-      for (const solution of this.solve(values)) addToSummary(this.field, out, solution.value, weight);
+      const { solutions, continuum } = this.solve(values);
+      for (const solution of solutions) {
+        const { key, leaves } = this.playOf(solution.profile, picks);
+        const fresh = !seen.has(key);
+        seen.add(key);
+        const plays = fresh ? leaves.reduce((n, k) => n * nested[k]!.plays[picks[k]!]!, 1) : 0;
+        const open = fresh && (continuum || leaves.some((k) => nested[k]!.open[picks[k]!]));
+        addToSummary(this.field, out, solution.value, weight, plays, open);
+      }
       if (!advanceOdometer(picks, sizes)) return out;
     }
   }
 
-  private solve(leafValues: T[][]): ReducedSolution<T>[] {
+  /** The play a solution makes with the nested values picked (as a key), and the leaves it reaches (in leaf order). */
+  private playOf(profile: Map<number, T[]>, picks: number[]): { key: string; leaves: number[] } {
+    const reach = this.localReach(profile);
+    const leaves = this.leafNodes.flatMap((local, k) => (this.field.cmp(reach[local]!, this.field.zero) > 0 ? [k] : []));
+    const spell = (p: T) => this.field.format(p) ?? this.field.toNumber(p).toPrecision(12);
+    const behaviour = this.reachedInfosets(reach).map((h) => `${h}:${profile.get(h)!.map(spell).join('/')}`);
+    return { key: `${behaviour.join(',')}|${leaves.map((k) => `${k}:${picks[k]}`).join(',')}`, leaves };
+  }
+
+  private solve(leafValues: T[][]): Solved<T> {
     const key = leafValues.map((v) => v.map((x) => String(this.field.format(x) ?? this.field.toNumber(x))).join(',')).join(';');
     const cached = this.cache.get(key);
     if (cached) return cached;
     this.leafNodes.forEach((local, k) => (this.game.nodes[local]!.value = leafValues[k]!));
-    const solutions = this.solveNow();
+    const solved = this.solveNow();
+    this.continuum ||= solved.continuum;
     if (this.cache.size >= 64) this.cache.clear();
-    this.cache.set(key, solutions);
-    return solutions;
+    this.cache.set(key, solved);
+    return solved;
   }
 
   /** Probability of reaching each local node under a profile of this part. */
@@ -381,15 +422,18 @@ class PartSolver<T> {
     return reach;
   }
 
+  /** Information sets with a member reached with positive probability, in index order. */
+  private reachedInfosets(reach: T[]): number[] {
+    const reached = new Set<number>();
+    this.game.nodes.forEach((node, i) => {
+      if (node.kind === 'decision' && this.field.cmp(reach[i]!, this.field.zero) > 0) reached.add(node.infoset!);
+    });
+    return [...reached].sort((a, b) => a - b);
+  }
+
   /** Supports of the information sets this profile reaches, as text. */
   support(profile: Map<number, T[]>): string {
-    const reach = this.localReach(profile);
-    const reachedSets = new Set<number>();
-    this.game.nodes.forEach((node, i) => {
-      if (node.kind === 'decision' && this.field.cmp(reach[i]!, this.field.zero) > 0) reachedSets.add(node.infoset!);
-    });
-    return [...reachedSets]
-      .sort((a, b) => a - b)
+    return this.reachedInfosets(this.localReach(profile))
       .map((h) => `${h}:${profile.get(h)!.flatMap((p, k) => (this.field.cmp(p, this.field.zero) > 0 ? [k] : [])).join('.')}`)
       .join(',');
   }
@@ -400,50 +444,52 @@ class PartSolver<T> {
     return this.field.cmp(reach[this.leafNodes[leafIndex]!]!, this.field.zero) > 0;
   }
 
-  private solveNow(): ReducedSolution<T>[] {
+  private solveNow(): Solved<T> {
     const { field, game } = this;
     const root = game.nodes[0]!;
     const leafValue = (local: number) => game.nodes[local]!.value!;
+    const isolated = (solutions: ReducedSolution<T>[]) => ({ solutions, continuum: false });
     switch (this.kind) {
       case 'decision': {
         const values = root.children.map(leafValue);
         let best = values[0]![root.team!]!;
         for (const v of values) if (field.cmp(v[root.team!]!, best) > 0) best = v[root.team!]!;
-        return values.flatMap((v, a) =>
-          field.cmp(v[root.team!]!, best) === 0
-            ? [{ value: v, profile: new Map([[root.infoset!, values.map((_, k) => (k === a ? field.one : field.zero))]]) }]
-            : [],
+        return isolated(
+          values.flatMap((v, a) =>
+            field.cmp(v[root.team!]!, best) === 0
+              ? [{ value: v, profile: new Map([[root.infoset!, values.map((_, k) => (k === a ? field.one : field.zero))]]) }]
+              : [],
+          ),
         );
       }
       case 'chance': {
         const values = root.children.map(leafValue);
         const value = values[0]!.map((_, t) => values.reduce((s, v, c) => field.add(s, field.mul(root.probs![c]!, v[t]!)), field.zero));
-        return [{ value, profile: new Map() }];
+        return isolated([{ value, profile: new Map() }]);
       }
       case 'simultaneous':
         return this.simultaneous();
       case 'sequenceForm':
         this.complete = false;
-        return [sequenceFormEquilibrium(field, game)];
+        return isolated([sequenceFormEquilibrium(field, game)]);
       case 'pure': {
         this.complete = false;
         const found = pureEquilibria(field, game);
         if (found.length === 0) throw new Error('a part of the game with more than two teams has no pure equilibrium; mixed equilibria of such parts are not computed');
-        return found;
+        return isolated(found);
       }
     }
   }
 
-  private simultaneous(): ReducedSolution<T>[] {
+  private simultaneous(): Solved<T> {
     const { field, game } = this;
     const root = game.nodes[0]!;
     const second = game.nodes[root.children[0]!]!;
     const [a, b] = [root.team!, second.team!];
     const A = root.children.map((r) => game.nodes[r]!.children.map((c) => game.nodes[c]!.value![a]!));
     const B = root.children.map((r) => game.nodes[r]!.children.map((c) => game.nodes[c]!.value![b]!));
-    const { equilibria, degenerate } = bimatrixEquilibria(field, A, B);
-    this.degenerate ||= degenerate;
-    return equilibria.map((e) => {
+    const { equilibria, continuum } = bimatrixEquilibria(field, A, B);
+    const solutions = equilibria.map((e) => {
       const profile = new Map([
         [root.infoset!, e.row],
         [second.infoset!, e.col],
@@ -457,6 +503,7 @@ class PartSolver<T> {
       );
       return { value, profile };
     });
+    return { solutions, continuum };
   }
 }
 

@@ -81,7 +81,7 @@ interface Vertex<T> {
  * and paired in floats; in exact mode only the vertices of float pairs are recomputed
  * exactly, and each pair is confirmed exactly.
  */
-export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { equilibria: StageEquilibrium<T>[]; degenerate: boolean } {
+export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { equilibria: StageEquilibrium<T>[]; degenerate: boolean; continuum: boolean } {
   const m = A.length;
   const n = A[0]!.length;
   // x (row team) must make the column team indifferent: its payoffs are B^T.
@@ -109,7 +109,20 @@ export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { eq
       if (x && y && compatible(x, y)) equilibria.push({ row: x.strategy, col: y.strategy, values: [y.value, x.value] });
     });
   });
-  return { equilibria, degenerate };
+  return { equilibria, degenerate, continuum: hasContinuum(field, equilibria) };
+}
+
+/**
+ * Whether the stage has a continuum of equilibria: the equilibrium sets of a bimatrix game
+ * are unions of products of convex hulls of mutually compatible extreme equilibria
+ * (Jansen 1981, "Maximal Nash subsets for bimatrix games", Naval Research Logistics
+ * Quarterly 28; Avis, Rosenberg, Savani and von Stengel 2010, Economic Theory 42; both
+ * cited from memory), so there is one exactly when some extreme strategy of one team is
+ * paired with two different extreme strategies of the other.
+ */
+function hasContinuum<T>(field: Field<T>, equilibria: StageEquilibrium<T>[]): boolean {
+  const same = (a: T[], b: T[]) => a.every((v, k) => field.cmp(v, b[k]!) === 0);
+  return equilibria.some((e, i) => equilibria.some((f, j) => j > i && same(e.row, f.row) !== same(e.col, f.col)));
 }
 
 function compatible(x: { support: number[]; bestResponses: number[] }, y: { support: number[]; bestResponses: number[] }): boolean {
