@@ -5,16 +5,20 @@
 import {
   backwardInduction,
   buildLadder,
+  childEdges,
   compiledGame,
+  fitLogit,
   monteCarlo,
   mulberry32,
   qreFlat,
+  sensitivity,
   solveFlat,
   supportEnumeration,
   type FlatGame,
   type Game,
   type GameNode,
   type LadderSpec,
+  type Observation,
   type PayoffRange,
   type Rng,
 } from '../src/lib/engine';
@@ -192,11 +196,15 @@ function qre() {
   });
 }
 
-/** The demo ladder stretched to five rounds: about 245,000 nodes, with a simultaneous stage in round 2. */
-function bigLadder(): Game {
+function demoScenario() {
   const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
   if (!parsed.ok) throw new Error('demo scenario does not parse');
-  const scenario = parsed.scenario;
+  return parsed.scenario;
+}
+
+/** The demo ladder stretched to five rounds: about 245,000 nodes, with a simultaneous stage in round 2. */
+function bigLadder(): Game {
+  const scenario = demoScenario();
   const spec: LadderSpec = { ...scenario.ladder!, rounds: 5 };
   const built = buildLadder(spec, scenario.teams, scenario.attributes.map((a) => a.key), 300_000);
   if (!built.ok) throw new Error(built.faults[0]!.message);
@@ -221,12 +229,54 @@ function monteCarloRuns() {
   const ranges: PayoffRange[] = terminalsOf(game, 20).map((terminalId) => ({ terminalId, team: 'Blue', distribution: { kind: 'uniform', low: -20, high: 20 } }));
   const { ms } = time(1, () => monteCarlo(game, ranges, { samples: 10_000, seed: 6 }));
   rows.push({ name: `Monte Carlo, 10,000 samples, ${nodes.toLocaleString('en')}-node tree (20 ranges)`, measured: `${(ms / 1000).toFixed(2)} s`, target: '-' });
-  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-  if (!parsed.ok) return;
-  const demo = scenarioGame(parsed.scenario);
-  const demoRanges = parsed.scenario.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
+  const scenario = demoScenario();
+  const demo = scenarioGame(scenario);
+  const demoRanges = scenario.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
   const onDemo = time(1, () => monteCarlo(demo, demoRanges, { samples: 10_000, seed: 6 }));
   rows.push({ name: '  same on the Serrin Strait demo (simultaneous stages)', measured: `${(onDemo.ms / 1000).toFixed(2)} s`, target: '-' });
+}
+
+/**
+ * The seeded run of the demo (server/seed/exercises.ts) as the Review fits it: the teams'
+ * own ladder moves; the adjudicated hold and the chance draw are passed through.
+ */
+function seededRunMoves(game: Game): Observation[] {
+  const line: [string, boolean][] = [
+    ['Climb to Exclusion zone', true],
+    ['Hold at Exclusion zone', false],
+    ['Stand aside', true],
+    ['Collision between patrol vessels', false],
+    ['Step down to Exclusion zone', true],
+    ['Climb to Partial blockade', true],
+    ['Broker a settlement', true],
+  ];
+  const moves: Observation[] = [];
+  let node = game.root;
+  for (const [label, fitted] of line) {
+    const edge = childEdges(node).find((e) => e.label === label);
+    if (!edge) throw new Error(`the demo tree has no "${label}" at ${node.id}`);
+    if (fitted) moves.push({ node: node.id, label });
+    node = edge.next;
+  }
+  return moves;
+}
+
+/** The two analyses the Review and the Studio wait on, on the demo; each run compiles a fresh copy, as a pool worker does. */
+function demoAnalyses() {
+  const demo = scenarioGame(demoScenario());
+  const moves = seededRunMoves(demo);
+  const nodes = compiledGame(demo).size.toLocaleString('en');
+  const fit = time(3, () => fitLogit(structuredClone(demo), moves));
+  const lambdas = Object.values(fit.result.teams).map((t) => t.lambda.toPrecision(4)).join(', ');
+  rows.push({ name: `logit lambda fit, Serrin Strait demo (${nodes} nodes, ${moves.length} moves of 3 teams)`, measured: `${fit.ms.toFixed(0)} ms (lambdas ${lambdas})`, target: '< 1 s', ok: fit.ms < 1000 });
+  const intervals = time(1, () => sensitivity(structuredClone(demo)));
+  const found = intervals.result.intervals.filter((i) => i.approximate && (i.low !== null || i.high !== null)).length;
+  rows.push({
+    name: `payoff intervals, every payoff of the demo (${intervals.result.intervals.length.toLocaleString('en')}, simultaneous stages)`,
+    measured: `${(intervals.ms / 1000).toFixed(2)} s (${found} with a bound found)`,
+    target: '< 5 s',
+    ok: intervals.ms < 5000,
+  });
 }
 
 function print() {
@@ -245,6 +295,7 @@ for (const [name, run] of [
   ['8x8 bimatrix', bimatrix],
   ['logit QRE', qre],
   ['Monte Carlo', monteCarloRuns],
+  ['demo lambda fit and payoff intervals', demoAnalyses],
 ] as const) {
   process.stderr.write(`running: ${name}\n`);
   run();

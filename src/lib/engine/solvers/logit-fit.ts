@@ -8,7 +8,7 @@ import { compiledGame, sourceOf, type FlatGame } from '../compile';
 import type { DecisionNode, Game } from '../model';
 import type { Equilibrium } from '../profile';
 import { choiceKey } from '../tree';
-import { behaviourRecord, qreFlat } from './qre';
+import { QreWorkspace } from './qre';
 
 export interface Observation {
   /** The node where the move was made, or */
@@ -23,6 +23,9 @@ interface ResolvedObservation {
   label: string;
   team: number;
   actions: number;
+  infoset: number;
+  /** Position of the label among the actions of the information set. */
+  action: number;
 }
 
 function resolve(game: Game, flat: FlatGame, observations: Observation[]): ResolvedObservation[] {
@@ -40,10 +43,11 @@ function resolve(game: Game, flat: FlatGame, observations: Observation[]): Resol
       if (h === undefined) throw new Error(`observation ${n}: no information set "${o.infoset}"`);
     } else throw new Error(`observation ${n}: give the node or the information set`);
     const first = source.nodes[source.infosetFirst[h!]!] as DecisionNode;
-    if (!first.actions.some((a) => a.label === o.label)) {
+    const action = first.actions.findIndex((a) => a.label === o.label);
+    if (action < 0) {
       throw new Error(`observation ${n}: "${o.label}" is not an action there (actions: ${first.actions.map((a) => a.label).join(', ')})`);
     }
-    return { key: source.infosetKeys[h!]!, label: o.label, team: game.teams.findIndex((t) => t.id === first.team), actions: first.actions.length };
+    return { key: source.infosetKeys[h!]!, label: o.label, team: game.teams.findIndex((t) => t.id === first.team), actions: first.actions.length, infoset: h!, action };
   });
 }
 
@@ -53,6 +57,27 @@ function logLikelihood(obs: ResolvedObservation[], behaviour: Behaviour, team?: 
   let sum = 0;
   for (const o of obs) if (team === undefined || o.team === team) sum += Math.log(behaviour[o.key]![o.label]!);
   return sum;
+}
+
+/**
+ * The log-likelihood of the observations under the agent QRE, as a function of the
+ * lambdas: one workspace solved again at each trial, the moves read straight from its
+ * probabilities (where each observed move's probability lies is found once).
+ */
+function qreLikelihood(flat: FlatGame, obs: ResolvedObservation[]) {
+  const workspace = new QreWorkspace(flat);
+  const slots = Int32Array.from(obs, (o) => workspace.offset[o.infoset]! + o.action);
+  const sum = (probs: Float64Array, team?: number) => {
+    let total = 0;
+    obs.forEach((o, n) => {
+      if (team === undefined || o.team === team) total += Math.log(probs[slots[n]!]!);
+    });
+    return total;
+  };
+  return {
+    total: (lambdas: ArrayLike<number>) => sum(workspace.solve(lambdas).probs),
+    perTeam: (lambdas: ArrayLike<number>, team: number) => sum(workspace.solve(lambdas).probs, team),
+  };
 }
 
 function uniformLogLikelihood(obs: ResolvedObservation[], team?: number): number {
@@ -93,31 +118,30 @@ function defaultMaxLambda(flat: FlatGame): number {
   return 200 / Math.max(hi - lo, 1e-9);
 }
 
-/** Maximum-likelihood lambda per team (coordinate ascent over teams, each by grid and golden-section search). */
+/** Maximum-likelihood lambda per team (coordinate ascent over teams, two sweeps, each team by a grid and Brent's method). */
 export function fitLogit(game: Game, observations: Observation[], options: LogitFitOptions = {}): LogitFit {
   const flat = compiledGame(game);
   const obs = resolve(game, flat, observations);
-  const total = (l: Float64Array) => logLikelihood(obs, behaviourRecord(flat, qreFlat(flat, l)));
+  const likelihood = qreLikelihood(flat, obs);
   const observed = game.teams.map((_, t) => obs.some((o) => o.team === t));
   let maxLambda = options.maxLambda ?? defaultMaxLambda(flat);
   let lambdas: Float64Array = new Float64Array(game.teams.length);
   for (let widening = 0; ; widening++) {
-    lambdas = coordinateAscent(game.teams.length, observed, total, maxLambda, options.progress);
+    lambdas = coordinateAscent(game.teams.length, observed, likelihood.total, maxLambda, options.progress);
     const atBound = lambdas.some((l) => l > 0.99 * maxLambda);
     if (options.maxLambda !== undefined || !atBound || widening === 3) break;
     maxLambda *= 10;
   }
-  const behaviour = behaviourRecord(flat, qreFlat(flat, lambdas));
   const teams: Record<string, TeamFit> = {};
   game.teams.forEach((team, t) => {
     teams[team.id] = {
       lambda: lambdas[t]!,
-      logLikelihood: logLikelihood(obs, behaviour, t),
+      logLikelihood: likelihood.perTeam(lambdas, t),
       uniformLogLikelihood: uniformLogLikelihood(obs, t),
       observations: obs.filter((o) => o.team === t).length,
     };
   });
-  return { teams, logLikelihood: logLikelihood(obs, behaviour), uniformLogLikelihood: uniformLogLikelihood(obs), maxLambda };
+  return { teams, logLikelihood: likelihood.total(lambdas), uniformLogLikelihood: uniformLogLikelihood(obs), maxLambda };
 }
 
 function coordinateAscent(
@@ -143,38 +167,70 @@ function coordinateAscent(
   return lambdas;
 }
 
-/** Maximum of f on [0, max]: the best of a geometric grid, refined by golden-section search. */
+/** The geometric grid a one-team search starts from: 0, then max * 10^-3 up to max in 15 even steps of log lambda. */
+function lambdaGrid(max: number): number[] {
+  return [0, ...Array.from({ length: 16 }, (_, k) => max * 10 ** (-3 + (3 * k) / 15))];
+}
+
+/** Maximum of f on [0, max]: the best of a geometric grid, refined by Brent's method between its neighbours. */
 function maximise(f: (x: number) => number, max: number): number {
-  const grid = [0, ...Array.from({ length: 16 }, (_, k) => max * 10 ** (-3 + (3 * k) / 15))];
+  const grid = lambdaGrid(max);
   const values = grid.map(f);
   let best = 0;
   values.forEach((v, k) => {
     if (v > values[best]!) best = k;
   });
-  let a = grid[Math.max(0, best - 1)]!;
-  let b = grid[Math.min(grid.length - 1, best + 1)]!;
-  const phi = (Math.sqrt(5) - 1) / 2;
-  let c = b - phi * (b - a);
-  let d = a + phi * (b - a);
-  let fc = f(c);
-  let fd = f(d);
-  for (let k = 0; k < 24; k++) {
-    if (fc > fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - phi * (b - a);
-      fc = f(c);
+  return brentMaximum(f, grid[Math.max(0, best - 1)]!, grid[Math.min(grid.length - 1, best + 1)]!, grid[best]!, values[best]!);
+}
+
+/**
+ * Brent's method (Brent, "Algorithms for Minimization without Derivatives", 1973, ch. 5):
+ * parabolic steps through the three best points, golden-section steps when a parabola
+ * does not help. Starts from x in [a, b] (f(x) = fx), returns the best point found, to
+ * within a millionth of the bracket's width. Of equal values the larger lambda is kept,
+ * so a likelihood that levels off (play as rational as can be told) runs to the bound.
+ */
+function brentMaximum(f: (x: number) => number, a: number, b: number, x: number, fx: number): number {
+  const golden = (3 - Math.sqrt(5)) / 2;
+  const tol = 1e-6 * (b - a);
+  let [w, v, fw, fv] = [x, x, fx, fx];
+  let [d, e] = [0, 0];
+  for (;;) {
+    const middle = (a + b) / 2;
+    if (Math.abs(x - middle) <= 2 * tol - (b - a) / 2) return x;
+    let parabolic = false;
+    if (Math.abs(e) > tol) {
+      // The vertex of the parabola through (x, fx), (w, fw), (v, fv), as x + p / q.
+      const r = (x - w) * (fv - fx);
+      let q = (x - v) * (fw - fx);
+      let p = (x - v) * q - (x - w) * r;
+      q = 2 * (q - r);
+      if (q > 0) p = -p;
+      else q = -q;
+      if (Math.abs(p) < Math.abs(0.5 * q * e) && p > q * (a - x) && p < q * (b - x)) {
+        e = d;
+        d = p / q;
+        parabolic = true;
+        if (x + d - a < 2 * tol || b - (x + d) < 2 * tol) d = x < middle ? tol : -tol;
+      }
+    }
+    if (!parabolic) {
+      e = (x < middle ? b : a) - x;
+      d = golden * e;
+    }
+    const u = x + (Math.abs(d) >= tol ? d : d > 0 ? tol : -tol);
+    const fu = f(u);
+    if (fu > fx || (fu === fx && u > x)) {
+      if (u < x) b = x;
+      else a = x;
+      [v, fv, w, fw, x, fx] = [w, fw, x, fx, u, fu];
     } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + phi * (b - a);
-      fd = f(d);
+      if (u < x) a = u;
+      else b = u;
+      if (fu >= fw || w === x) [v, fv, w, fw] = [w, fw, u, fu];
+      else if (fu >= fv || v === x || v === w) [v, fv] = [u, fu];
     }
   }
-  const refined = (a + b) / 2;
-  return f(refined) >= values[best]! ? refined : grid[best]!;
 }
 
 export interface TrembleLikelihood {

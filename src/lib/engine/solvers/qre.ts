@@ -75,32 +75,181 @@ function logit(q: ArrayLike<number>, count: number, lambda: number, probs: Float
   for (let k = 0; k < count; k++) probs[at + k]! /= sum;
 }
 
+/** Internal nodes of the proper subgame rooted at `root`, stopping at nested subgame roots and terminals. */
+function partNodes(flat: FlatGame, roots: Uint8Array, root: number): Int32Array {
+  const out = [root];
+  for (let head = 0; head < out.length; head++) {
+    const i = out[head]!;
+    for (let c = flat.childStart[i]!; c < flat.childStart[i + 1]!; c++) {
+      if (flat.mover[c] !== TERMINAL && !roots[c]) out.push(c);
+    }
+  }
+  return Int32Array.from(out);
+}
+
+/** A proper subgame with shared information sets: its internal nodes (parents first) and those sets. */
+interface TracedPart {
+  nodes: Int32Array;
+  sets: number[];
+}
+
+/** What every QRE solve of one flat game shares, computed once per game. */
+interface Structure {
+  offset: Int32Array;
+  /** shared[h] = 1 for an information set of several nodes. */
+  shared: Uint8Array;
+  members: Map<number, number[]>;
+  traced: TracedPart[];
+  /**
+   * The bottom-up pass, or null for perfect information (every node, last to first): an
+   * entry i >= 0 solves node i from its children, -(k + 1) traces part k. Every node of a
+   * traced part but its root is left to the trace, whose leaves come later in the
+   * breadth-first order and so are already solved.
+   */
+  schedule: Int32Array | null;
+  /** Largest number of actions at a node. */
+  maxActions: number;
+  /** Bit t of movers[i]: team t moves somewhere in the subtree of node i, so the QRE there depends on its lambda. */
+  movers: Int32Array;
+}
+
+const structureCache = new WeakMap<FlatGame, Structure>();
+
+function structureOf(flat: FlatGame): Structure {
+  let structure = structureCache.get(flat);
+  if (!structure) {
+    structure = buildStructure(flat);
+    structureCache.set(flat, structure);
+  }
+  return structure;
+}
+
+function buildStructure(flat: FlatGame): Structure {
+  const members = sharedSets(flat);
+  const shared = new Uint8Array(flat.infosetCount);
+  for (const h of members.keys()) shared[h] = 1;
+  let maxActions = 1;
+  for (let i = 0; i < flat.size; i++) maxActions = Math.max(maxActions, flat.childStart[i + 1]! - flat.childStart[i]!);
+  const base = { offset: infosetOffsets(flat), shared, members, maxActions, movers: subtreeMovers(flat) };
+  if (members.size === 0) return { ...base, traced: [], schedule: null };
+  const roots = properSubgameRoots(flat);
+  const firstMember = new Map([...members].map(([h, list]) => [list[0]!, h]));
+  const traced: TracedPart[] = [];
+  const tracedAt = new Int32Array(flat.size).fill(-1);
+  const insideTraced = new Uint8Array(flat.size);
+  for (let i = flat.size - 1; i >= 0; i--) {
+    if (flat.mover[i] === TERMINAL || !roots[i]) continue;
+    const nodes = partNodes(flat, roots, i);
+    const sets = [...nodes].flatMap((x) => (firstMember.has(x) ? [firstMember.get(x)!] : []));
+    if (sets.length === 0) continue;
+    tracedAt[i] = traced.length;
+    traced.push({ nodes, sets });
+    for (let n = 1; n < nodes.length; n++) insideTraced[nodes[n]!] = 1;
+  }
+  const schedule: number[] = [];
+  for (let i = flat.size - 1; i >= 0; i--) {
+    if (tracedAt[i]! >= 0) schedule.push(-(tracedAt[i]! + 1));
+    else if (!insideTraced[i]) schedule.push(i);
+  }
+  return { ...base, traced, schedule: Int32Array.from(schedule) };
+}
+
+function subtreeMovers(flat: FlatGame): Int32Array {
+  const movers = new Int32Array(flat.size);
+  for (let i = flat.size - 1; i >= 0; i--) {
+    let mask = flat.mover[i]! >= 0 ? 1 << flat.mover[i]! : flat.mover[i] === TERMINAL ? TERMINAL_BIT : 0;
+    for (let c = flat.childStart[i]!; c < flat.childStart[i + 1]!; c++) mask |= movers[c]!;
+    movers[i] = mask;
+  }
+  return movers;
+}
+
+/** Terminals carry a bit of no team, so only the first solve (EVERYTHING) writes their values. */
+const TERMINAL_BIT = 1 << 30;
+/** A mask meaning "solve every node" (the first solve of a workspace). */
+const EVERYTHING = -1;
+
 /**
- * One bottom-up pass over `nodes` (flat indices, parents before children; nodes outside
- * the list must already have values; with `everyNode`, over all nodes 0..length-1): values under the profile; singleton information
- * sets respond exactly (logit of their children's values), shared sets keep their
- * current probabilities.
+ * The arrays of one QRE solve and the passes over them. A workspace can be solved again
+ * at other lambdas (the lambda fit does so hundreds of times): each solve overwrites the
+ * previous result, and nothing is allocated per solve. A solve re-computes only the
+ * subtrees where a team whose lambda changed since the previous solve moves: elsewhere
+ * the previous numbers are the ones a fresh solve would give.
  */
-function backwardPass(
-  flat: FlatGame,
-  nodes: ArrayLike<number>,
-  lambdas: ArrayLike<number>,
-  offset: Int32Array,
-  probs: Float64Array,
-  shared: Map<number, number[]>,
-  value: Float64Array,
-  everyNode = false,
-) {
-  const { teams, mover, childStart, aux, payoff, prob } = flat;
-  let q = new Float64Array(16);
-  for (let n = nodes.length - 1; n >= 0; n--) {
-    const i = everyNode ? n : nodes[n]!;
+export class QreWorkspace {
+  readonly offset: Int32Array;
+  readonly probs: Float64Array;
+  /** value[i * teams + t] under the profile. */
+  readonly value: Float64Array;
+  private readonly reach: Float64Array;
+  private readonly q: Float64Array;
+  private readonly structure: Structure;
+  private readonly systems: SharedSystem[];
+  private readonly convergedParts: Uint8Array;
+  /** Lambdas of the previous solve; NaN before the first. */
+  private readonly solvedAt: Float64Array;
+
+  constructor(readonly flat: FlatGame) {
+    this.structure = structureOf(flat);
+    this.offset = this.structure.offset;
+    this.probs = new Float64Array(this.offset[flat.infosetCount]!);
+    for (let h = 0; h < flat.infosetCount; h++) {
+      this.probs.fill(1 / (this.offset[h + 1]! - this.offset[h]!), this.offset[h]!, this.offset[h + 1]!);
+    }
+    this.value = new Float64Array(flat.size * flat.teams);
+    this.reach = new Float64Array(flat.size);
+    this.q = new Float64Array(this.structure.maxActions);
+    this.systems = this.structure.traced.map((part) => new SharedSystem(this, part));
+    this.convergedParts = new Uint8Array(this.systems.length).fill(1);
+    this.solvedAt = new Float64Array(flat.teams).fill(NaN);
+  }
+
+  /** Bit t set when team t's lambda differs from the previous solve's; EVERYTHING at the first solve. */
+  private changedTeams(lambdas: ArrayLike<number>): number {
+    let changed = Number.isNaN(this.solvedAt[0]) ? EVERYTHING : 0;
+    for (let t = 0; t < this.flat.teams; t++) {
+      if (lambdas[t] !== this.solvedAt[t]) changed |= 1 << t;
+      this.solvedAt[t] = lambdas[t]!;
+    }
+    return changed;
+  }
+
+  /** The agent QRE at per-team lambdas; `offset`, `probs` and `value` hold it until the next solve. */
+  solve(lambdas: ArrayLike<number>, options: QreTraceOptions = {}): FlatQre {
+    const tolerance = options.tolerance ?? 1e-10;
+    const { schedule, traced, movers } = this.structure;
+    const changed = this.changedTeams(lambdas);
+    if (!schedule) {
+      for (let i = this.flat.size - 1; i >= 0; i--) if (movers[i]! & changed) this.solveNode(i, lambdas);
+      options.progress?.(1, 'logit QRE');
+    } else {
+      let done = 0;
+      for (let n = 0; n < schedule.length; n++) {
+        const entry = schedule[n]!;
+        const root = entry >= 0 ? entry : traced[-entry - 1]!.nodes[0]!;
+        if (!(movers[root]! & changed)) continue;
+        if (entry >= 0) this.solveNode(entry, lambdas);
+        else this.convergedParts[-entry - 1] = tracePart(this.systems[-entry - 1]!, lambdas, tolerance) ? 1 : 0;
+        if (entry < 0) options.progress?.(++done / traced.length, 'logit QRE by subgames');
+      }
+    }
+    return { offset: this.offset, probs: this.probs, value: this.value, converged: this.convergedParts.every(Boolean), steps: traced.length };
+  }
+
+  /**
+   * Values of node i from its children's; a decision alone in its information set
+   * responds exactly (logit of its children's values), a shared set keeps its current
+   * probabilities.
+   */
+  solveNode(i: number, lambdas: ArrayLike<number>) {
+    const { teams, mover, childStart, aux, payoff, prob } = this.flat;
+    const { value, probs, q } = this;
     const m = mover[i]!;
     const row = i * teams;
     if (m === TERMINAL) {
       const src = aux[i]! * teams;
       for (let t = 0; t < teams; t++) value[row + t] = payoff[src + t]!;
-      continue;
+      return;
     }
     const first = childStart[i]!;
     const count = childStart[i + 1]! - first;
@@ -111,10 +260,9 @@ function backwardPass(
       at = aux[i]!;
     } else {
       const h = aux[i]!;
-      at = offset[h]!;
+      at = this.offset[h]!;
       weights = probs;
-      if (!shared.has(h)) {
-        if (count > q.length) q = new Float64Array(count);
+      if (!this.structure.shared[h]) {
         for (let k = 0; k < count; k++) q[k] = value[(first + k) * teams + m]!;
         logit(q, count, lambdas[m]!, probs, at);
       }
@@ -125,19 +273,21 @@ function backwardPass(
       value[row + t] = sum;
     }
   }
-}
 
-/** Reach probabilities within a part, from its root (reach 1) down through `nodes`. */
-function reachProbabilities(flat: FlatGame, nodes: ArrayLike<number>, offset: Int32Array, probs: Float64Array, reach: Float64Array) {
-  const { mover, childStart, aux, prob } = flat;
-  reach[nodes[0]!] = 1;
-  for (let n = 0; n < nodes.length; n++) {
-    const i = nodes[n]!;
-    const m = mover[i]!;
-    const first = childStart[i]!;
-    const at = m === CHANCE ? aux[i]! : offset[aux[i]!]!;
-    const weights = m === CHANCE ? prob : probs;
-    for (let c = first; c < childStart[i + 1]!; c++) reach[c] = reach[i]! * weights[at + c - first]!;
+  /** Reach probabilities within a part, from its root (reach 1) down through `nodes`. */
+  reachWithin(nodes: Int32Array): Float64Array {
+    const { mover, childStart, aux, prob } = this.flat;
+    const { reach, probs, offset } = this;
+    reach[nodes[0]!] = 1;
+    for (let n = 0; n < nodes.length; n++) {
+      const i = nodes[n]!;
+      const m = mover[i]!;
+      const first = childStart[i]!;
+      const at = m === CHANCE ? aux[i]! : offset[aux[i]!]!;
+      const weights = m === CHANCE ? prob : probs;
+      for (let c = first; c < childStart[i + 1]!; c++) reach[c] = reach[i]! * weights[at + c - first]!;
+    }
+    return reach;
   }
 }
 
@@ -148,55 +298,60 @@ function reachProbabilities(flat: FlatGame, nodes: ArrayLike<number>, offset: In
  */
 class SharedSystem {
   readonly dim: number;
-  private readonly sets: { h: number; members: number[]; count: number; at: number }[] = [];
+  private readonly sets: { h: number; members: number[]; mover: number; count: number; at: number }[] = [];
+  private readonly q: Float64Array;
+  /** Buffers of Newton's method and of the continuation, sized once. */
+  readonly scratch: { g: Float64Array; trial: Float64Array; gTrial: Float64Array; jacobian: Float64Array; step: Float64Array; saved: Float64Array; lambdas: Float64Array };
 
   constructor(
-    private readonly flat: FlatGame,
-    private readonly nodes: Int32Array,
-    private readonly offset: Int32Array,
-    private readonly probs: Float64Array,
-    private readonly shared: Map<number, number[]>,
-    sets: number[],
-    private readonly value: Float64Array,
-    private readonly reach: Float64Array,
+    private readonly workspace: QreWorkspace,
+    private readonly part: TracedPart,
   ) {
+    const { flat, offset } = workspace;
+    const members = structureOf(flat).members;
     let dim = 0;
-    for (const h of sets) {
+    for (const h of part.sets) {
       const count = offset[h + 1]! - offset[h]!;
-      this.sets.push({ h, members: shared.get(h)!, count, at: dim });
+      const list = members.get(h)!;
+      this.sets.push({ h, members: list, mover: flat.mover[list[0]!]!, count, at: dim });
       dim += count - 1;
     }
     this.dim = dim;
+    this.q = new Float64Array(structureOf(flat).maxActions);
+    const vector = () => new Float64Array(dim);
+    this.scratch = { g: vector(), trial: vector(), gTrial: vector(), jacobian: new Float64Array(dim * dim), step: vector(), saved: vector(), lambdas: new Float64Array(flat.teams) };
   }
 
   /** Set the shared probabilities from log-odds y. */
   apply(y: Float64Array) {
+    const { probs, offset } = this.workspace;
     for (const { h, count, at } of this.sets) {
-      const base = this.offset[h]!;
+      const base = offset[h]!;
       let max = 0;
       for (let k = 1; k < count; k++) max = Math.max(max, y[at + k - 1]!);
       let sum = Math.exp(-max);
-      this.probs[base] = sum;
+      probs[base] = sum;
       for (let k = 1; k < count; k++) {
         const e = Math.exp(y[at + k - 1]! - max);
-        this.probs[base + k] = e;
+        probs[base + k] = e;
         sum += e;
       }
-      for (let k = 0; k < count; k++) this.probs[base + k]! /= sum;
+      for (let k = 0; k < count; k++) probs[base + k]! /= sum;
     }
   }
 
   /** Residual G(y) at lambdas, written into out. */
   residual(y: Float64Array, lambdas: ArrayLike<number>, out: Float64Array) {
-    const { flat, value, reach } = this;
+    const { workspace, q } = this;
+    const { flat, value } = workspace;
+    const nodes = this.part.nodes;
     this.apply(y);
-    backwardPass(flat, this.nodes, lambdas, this.offset, this.probs, this.shared, value);
-    reachProbabilities(flat, this.nodes, this.offset, this.probs, reach);
-    for (const { members, count, at } of this.sets) {
-      const m = flat.mover[members[0]!]!;
+    for (let n = nodes.length - 1; n >= 0; n--) workspace.solveNode(nodes[n]!, lambdas);
+    const reach = workspace.reachWithin(nodes);
+    for (const { members, mover: m, count, at } of this.sets) {
       let mass = 0;
       for (const x of members) mass += reach[x]!;
-      const q = new Float64Array(count);
+      q.fill(0, 0, count);
       for (const x of members) {
         const w = mass > 0 ? reach[x]! / mass : 1 / members.length;
         for (let k = 0; k < count; k++) q[k]! += w * value[(flat.childStart[x]! + k) * flat.teams + m]!;
@@ -206,28 +361,29 @@ class SharedSystem {
   }
 }
 
-const norm = (v: Float64Array) => Math.sqrt(v.reduce((s, x) => s + x * x, 0));
+function norm(v: Float64Array): number {
+  let sum = 0;
+  for (let k = 0; k < v.length; k++) sum += v[k]! * v[k]!;
+  return Math.sqrt(sum);
+}
 
 /** Newton's method with a finite-difference Jacobian and step halving. Returns true on convergence. */
 function newton(system: SharedSystem, y: Float64Array, lambdas: ArrayLike<number>, tolerance: number): boolean {
   const d = system.dim;
-  const g = new Float64Array(d);
-  const trial = new Float64Array(d);
-  const gTrial = new Float64Array(d);
+  const { g, trial, gTrial, jacobian: J, step } = system.scratch;
   system.residual(y, lambdas, g);
   for (let iteration = 0; iteration < 50; iteration++) {
     const size = norm(g);
     if (size < tolerance) return true;
-    const J: number[][] = Array.from({ length: d }, () => new Array<number>(d).fill(0));
     for (let j = 0; j < d; j++) {
       const h = 1e-7 * Math.max(1, Math.abs(y[j]!));
       trial.set(y);
       trial[j]! += h;
       system.residual(trial, lambdas, gTrial);
-      for (let i = 0; i < d; i++) J[i]![j] = (gTrial[i]! - g[i]!) / h;
+      for (let i = 0; i < d; i++) J[i * d + j] = (gTrial[i]! - g[i]!) / h;
     }
-    const step = solveDense(J, Array.from(g, (v) => -v));
-    if (!step) return false;
+    for (let i = 0; i < d; i++) step[i] = -g[i]!;
+    if (!solveDense(J, step, d)) return false;
     let t = 1;
     for (;;) {
       for (let j = 0; j < d; j++) trial[j] = y[j]! + t * step[j]!;
@@ -242,82 +398,41 @@ function newton(system: SharedSystem, y: Float64Array, lambdas: ArrayLike<number
   return norm(g) < tolerance;
 }
 
-/** Gaussian elimination with partial pivoting; null when singular. */
-function solveDense(A: number[][], b: number[]): number[] | null {
-  const n = b.length;
+/** Solve A x = b in place (A: n x n row-major, b becomes x) by Gaussian elimination with partial pivoting; false when singular. */
+function solveDense(A: Float64Array, b: Float64Array, n: number): boolean {
   for (let c = 0; c < n; c++) {
     let p = c;
-    for (let r = c + 1; r < n; r++) if (Math.abs(A[r]![c]!) > Math.abs(A[p]![c]!)) p = r;
-    if (Math.abs(A[p]![c]!) < 1e-14) return null;
-    [A[c], A[p]] = [A[p]!, A[c]!];
-    [b[c], b[p]] = [b[p]!, b[c]!];
+    for (let r = c + 1; r < n; r++) if (Math.abs(A[r * n + c]!) > Math.abs(A[p * n + c]!)) p = r;
+    if (Math.abs(A[p * n + c]!) < 1e-14) return false;
+    if (p !== c) {
+      for (let k = 0; k < n; k++) {
+        const swap = A[c * n + k]!;
+        A[c * n + k] = A[p * n + k]!;
+        A[p * n + k] = swap;
+      }
+      const swap = b[c]!;
+      b[c] = b[p]!;
+      b[p] = swap;
+    }
     for (let r = c + 1; r < n; r++) {
-      const f = A[r]![c]! / A[c]![c]!;
+      const f = A[r * n + c]! / A[c * n + c]!;
       if (f === 0) continue;
-      for (let k = c; k < n; k++) A[r]![k]! -= f * A[c]![k]!;
+      for (let k = c; k < n; k++) A[r * n + k]! -= f * A[c * n + k]!;
       b[r]! -= f * b[c]!;
     }
   }
-  const x = new Array<number>(n).fill(0);
   for (let r = n - 1; r >= 0; r--) {
     let s = b[r]!;
-    for (let k = r + 1; k < n; k++) s -= A[r]![k]! * x[k]!;
-    x[r] = s / A[r]![r]!;
+    for (let k = r + 1; k < n; k++) s -= A[r * n + k]! * b[k]!;
+    b[r] = s / A[r * n + r]!;
   }
-  return x;
-}
-
-/** Internal nodes of the proper subgame rooted at `root`, stopping at nested subgame roots and terminals. */
-function partNodes(flat: FlatGame, roots: Uint8Array, root: number): Int32Array {
-  const out = [root];
-  for (let head = 0; head < out.length; head++) {
-    const i = out[head]!;
-    for (let c = flat.childStart[i]!; c < flat.childStart[i + 1]!; c++) {
-      if (flat.mover[c] !== TERMINAL && !roots[c]) out.push(c);
-    }
-  }
-  return Int32Array.from(out);
-}
-
-interface Part {
-  nodes: Int32Array;
-  /** Shared information sets inside the part. */
-  sets: number[];
-}
-
-interface Structure {
-  shared: Map<number, number[]>;
-  parts: Part[];
-}
-
-const structureCache = new WeakMap<FlatGame, Structure>();
-
-/** The shared information sets and the proper subgames (bottom-up, with their internal nodes and shared sets) of a flat game. */
-function structureOf(flat: FlatGame): Structure {
-  const cached = structureCache.get(flat);
-  if (cached) return cached;
-  const shared = sharedSets(flat);
-  const parts: Part[] = [];
-  if (shared.size > 0) collectParts(flat, shared, parts);
-  const structure = { shared, parts };
-  structureCache.set(flat, structure);
-  return structure;
-}
-
-function collectParts(flat: FlatGame, shared: Map<number, number[]>, parts: Part[]) {
-  const roots = properSubgameRoots(flat);
-  const firstMember = new Map([...shared].map(([h, members]) => [members[0]!, h]));
-  for (let i = flat.size - 1; i >= 0; i--) {
-    if (flat.mover[i] === TERMINAL || !roots[i]) continue;
-    const nodes = partNodes(flat, roots, i);
-    parts.push({ nodes, sets: [...nodes].flatMap((x) => (firstMember.has(x) ? [firstMember.get(x)!] : [])) });
-  }
+  return true;
 }
 
 /** Trace the QRE of one part from lambda = 0 to the target lambdas. Returns false if the corrector fails. */
 function tracePart(system: SharedSystem, lambdas: ArrayLike<number>, tolerance: number): boolean {
+  const { saved, lambdas: at, gTrial: unused } = system.scratch;
   const y = new Float64Array(system.dim);
-  const at = new Float64Array(lambdas.length);
   const scaled = (s: number) => {
     for (let t = 0; t < lambdas.length; t++) at[t] = s * lambdas[t]!;
     return at;
@@ -325,7 +440,7 @@ function tracePart(system: SharedSystem, lambdas: ArrayLike<number>, tolerance: 
   let s = 0;
   let step = 0.1;
   while (s < 1) {
-    const saved = y.slice();
+    saved.set(y);
     const next = Math.min(1, s + step);
     if (newton(system, y, scaled(next), tolerance)) {
       s = next;
@@ -334,12 +449,12 @@ function tracePart(system: SharedSystem, lambdas: ArrayLike<number>, tolerance: 
       y.set(saved);
       step /= 2;
       if (step < 1e-6) {
-        system.residual(y, scaled(s), new Float64Array(system.dim));
+        system.residual(y, scaled(s), unused);
         return false;
       }
     }
   }
-  system.residual(y, scaled(1), new Float64Array(system.dim));
+  system.residual(y, scaled(1), unused);
   return true;
 }
 
@@ -349,37 +464,7 @@ function tracePart(system: SharedSystem, lambdas: ArrayLike<number>, tolerance: 
  * sets are traced one at a time, bottom-up, with the values of their nested parts fixed.
  */
 export function qreFlat(flat: FlatGame, lambdas: ArrayLike<number>, options: QreTraceOptions = {}): FlatQre {
-  const tolerance = options.tolerance ?? 1e-10;
-  const offset = infosetOffsets(flat);
-  const probs = new Float64Array(offset[flat.infosetCount]!);
-  for (let h = 0; h < flat.infosetCount; h++) {
-    const count = offset[h + 1]! - offset[h]!;
-    probs.fill(1 / count, offset[h]!, offset[h + 1]!);
-  }
-  const value = new Float64Array(flat.size * flat.teams);
-  const { shared, parts } = structureOf(flat);
-  if (shared.size === 0) {
-    backwardPass(flat, { length: flat.size } as Int32Array, lambdas, offset, probs, shared, value, true);
-    options.progress?.(1, 'logit QRE');
-    return { offset, probs, value, converged: true, steps: 0 };
-  }
-  for (let i = 0; i < flat.size; i++) {
-    if (flat.mover[i] !== TERMINAL) continue;
-    for (let t = 0; t < flat.teams; t++) value[i * flat.teams + t] = flat.payoff[flat.aux[i]! * flat.teams + t]!;
-  }
-  const reach = new Float64Array(flat.size);
-  let converged = true;
-  let traced = 0;
-  parts.forEach(({ nodes, sets }, k) => {
-    if (sets.length === 0) {
-      backwardPass(flat, nodes, lambdas, offset, probs, shared, value);
-      return;
-    }
-    converged &&= tracePart(new SharedSystem(flat, nodes, offset, probs, shared, sets, value, reach), lambdas, tolerance);
-    traced++;
-    options.progress?.((k + 1) / parts.length, 'logit QRE by subgames');
-  });
-  return { offset, probs, value, converged, steps: traced };
+  return new QreWorkspace(flat).solve(lambdas, options);
 }
 
 export interface QreOptions {

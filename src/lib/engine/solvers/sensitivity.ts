@@ -10,9 +10,11 @@
  * around the current x in which the choices that equilibrium play meets are unchanged.
  *
  * Imperfect information, numerical: x is moved up and down (doubling, then bisection)
- * and only the proper subgames above the terminal are re-solved; the signature compared
- * is the support of play at the information sets reached. Intervals are then flagged
- * approximate, and a bound that is not found within the search span is reported as null.
+ * and only the proper subgames above the terminal are re-solved, up to the first whose
+ * value comes out unchanged; the signature compared is the support of play at the
+ * information sets reached. A direction in which no choice can feel x (see
+ * RollUpSession.choicesFixed) is not searched. Intervals are then flagged approximate,
+ * and a bound that is not found within the search span is reported as null.
  */
 import { CHANCE, TERMINAL, compiledGame, isPerfectInformation, parentsOf, sourceOf, type FlatGame } from '../compile';
 import type { Game } from '../model';
@@ -260,8 +262,8 @@ function numericIntervals(flat: FlatGame, terminals: number[], progress?: Progre
         session.setPayoff(z, t, x, chain);
         return session.playSignature(chain) === base;
       };
-      const high = searchBound(same, x0, scale, 1);
-      const low = searchBound(same, x0, scale, -1);
+      const high = session.choicesFixed(z, t, 1, chain) ? null : searchBound(same, x0, scale, 1);
+      const low = session.choicesFixed(z, t, -1, chain) ? null : searchBound(same, x0, scale, -1);
       session.setPayoff(z, t, x0, chain);
       out.push(interval(floatField, id, team, x0, low, high, true));
     }
@@ -270,20 +272,34 @@ function numericIntervals(flat: FlatGame, terminals: number[], progress?: Progre
   return out;
 }
 
-/** The bound in `direction` where `same` stops holding: doubling steps, then bisection. */
+/** The search steps away from the payoff: scale / 1024 doubled up to 16 times (the last is 64 times the payoff range). */
+const STEPS = 17;
+/** Every STRIDE-th step is tried first; the steps between are searched only where play has changed. */
+const STRIDE = 4;
+
+/**
+ * The bound in `direction` where `same` stops holding: the first of the doubling steps
+ * where play differs, then bisection between it and the step before. The steps are tried
+ * STRIDE apart, then halved back to the first that differs; so a change of play confined
+ * between two tried steps (play changing and changing back) is not seen.
+ */
 function searchBound(same: (x: number) => boolean, x0: number, scale: number, direction: 1 | -1): number | null {
-  let inside = 0;
-  let step = scale / 1024;
-  let outside = -1;
-  while (step <= scale * 100) {
-    if (!same(x0 + direction * step)) {
-      outside = step;
-      break;
-    }
-    inside = step;
-    step *= 2;
+  const step = (k: number) => (k < 0 ? 0 : (scale / 1024) * 2 ** k);
+  const sameAt = (k: number) => same(x0 + direction * step(k));
+  let kept = -1;
+  let changed = -1;
+  for (let k = 0; k < STEPS && changed < 0; k += STRIDE) {
+    if (sameAt(k)) kept = k;
+    else changed = k;
   }
-  if (outside < 0) return null;
+  if (changed < 0) return null;
+  while (changed - kept > 1) {
+    const mid = (kept + changed) >> 1;
+    if (sameAt(mid)) kept = mid;
+    else changed = mid;
+  }
+  let inside = step(kept);
+  let outside = step(changed);
   const resolution = 10 ** Math.floor(Math.log10(scale * 1e-6));
   while (outside - inside > resolution / 4) {
     const mid = (inside + outside) / 2;

@@ -179,8 +179,10 @@ function rollUp<T>(flat: FlatGame, field: Field<T>, numbers: { payoff: T[]; prob
 }
 
 /**
- * The first subgame-perfect equilibrium, kept live so that one terminal payoff can be
- * altered and only the proper subgames above it re-solved (sensitivity analysis).
+ * The first subgame-perfect equilibrium, kept live so that terminal payoffs can be
+ * altered and only the proper subgames above them re-solved (sensitivity analysis, Monte
+ * Carlo). Re-solving stops climbing where a part's value comes out unchanged: the parts
+ * above it would be solved from the same numbers.
  */
 export class RollUpSession<T> {
   private readonly parts: Part<T>[];
@@ -189,6 +191,10 @@ export class RollUpSession<T> {
   private readonly roots: Uint8Array;
   /** The behaviour of the current first equilibrium, kept up to date part by part. */
   private readonly live: Behaviour<T>;
+  /** What play looks like in each part (for playSignature), until the part is re-solved. */
+  private readonly looks = new Map<number, { support: string; reaches: Map<number, boolean> }>();
+  /** Each part's first solution with its leaf values as built: a payoff set back finds it again unsolved. */
+  private readonly initial = new Map<number, { leafValues: T[][]; entry: Entry<T> }>();
 
   constructor(
     private readonly flat: FlatGame,
@@ -205,15 +211,43 @@ export class RollUpSession<T> {
         const solver = new PartSolver(field, game, leaves, this.parts);
         this.solvers.set(i, solver);
         this.parts[i] = { leaves, entries: solver.list(1) };
+        this.initial.set(i, { leafValues: this.leafValues(i), entry: this.parts[i]!.entries[0]! });
       }
     }
     this.live = materialize(flat, this.parts, 0);
   }
 
-  private resolve(root: number) {
-    const entries = this.solvers.get(root)!.list(1);
-    this.parts[root]!.entries = entries;
-    for (const [infoset, probs] of entries[0]!.profile) this.live[infoset] = probs;
+  private leafValues(root: number): T[][] {
+    return this.parts[root]!.leaves.map((leaf) => this.parts[leaf]!.entries[0]!.value);
+  }
+
+  private sameValue(a: T[], b: T[]): boolean {
+    return a.every((v, t) => v === b[t] || (this.field.exact && this.field.cmp(v, b[t]!) === 0));
+  }
+
+  /** Re-solve one part; true when its value changed. */
+  private resolve(root: number): boolean {
+    const part = this.parts[root]!;
+    const before = part.entries[0]!.value;
+    const initial = this.initial.get(root)!;
+    const values = this.leafValues(root);
+    const entry = values.every((v, k) => this.sameValue(v, initial.leafValues[k]!)) ? initial.entry : this.solvers.get(root)!.first();
+    part.entries = [entry];
+    this.looks.delete(root);
+    for (const [infoset, probs] of entry.profile) this.live[infoset] = probs;
+    return !this.sameValue(entry.value, before);
+  }
+
+  /** Re-solve, bottom-up, the candidate parts (descending flat index) that have a changed leaf. */
+  private settle(candidates: number[], changed: Set<number>) {
+    for (const root of candidates) {
+      if (this.parts[root]!.leaves.some((leaf) => changed.has(leaf)) && this.resolve(root)) changed.add(root);
+    }
+  }
+
+  private writePayoff(terminal: number, team: number, value: T) {
+    this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
+    this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
   }
 
   /** Roots of the proper subgames containing node i, innermost first. */
@@ -232,23 +266,48 @@ export class RollUpSession<T> {
     return this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team]!;
   }
 
-  /** Set one payoff and re-solve the parts above it. */
+  /** Set one payoff and re-solve the parts above it (`chain`: chainAbove(terminal), when the caller keeps it). */
   setPayoff(terminal: number, team: number, value: T, chain = this.chainAbove(terminal)) {
-    this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
-    this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
-    for (const root of chain) this.resolve(root);
+    this.writePayoff(terminal, team, value);
+    this.settle(chain, new Set([terminal]));
   }
 
-  /** Set several payoffs, then re-solve every part above any of them, bottom-up. */
+  /** Set several payoffs, then re-solve the parts above any of them, bottom-up. */
   setPayoffs(changes: { terminal: number; team: number; value: T }[]) {
     const roots = new Set<number>();
     for (const { terminal, team, value } of changes) {
-      this.numbers.payoff[this.flat.aux[terminal]! * this.flat.teams + team] = value;
-      this.parts[terminal] = terminalPart(this.flat, this.numbers.payoff, terminal);
+      this.writePayoff(terminal, team, value);
       for (const root of this.chainAbove(terminal)) roots.add(root);
     }
     // Children have larger flat indices than their parents: descending order is bottom-up.
-    for (const root of [...roots].sort((a, b) => b - a)) this.resolve(root);
+    this.settle([...roots].sort((a, b) => b - a), new Set(changes.map((c) => c.terminal)));
+  }
+
+  /**
+   * True when moving one terminal payoff of `team` any distance in `direction` (+1 up, -1
+   * down) can change no choice in the parts of `chain` (chainAbove(terminal)). Going up
+   * from the terminal, the moved number is one team's value of a leaf, moving the same way:
+   * a decision of another team, a chance node, or a simultaneous stage the team takes no
+   * part in keep their choices (they read other teams' values only); the team's own
+   * decision keeps its choice when the chosen leaf gains or a leaf not chosen loses (the
+   * earlier action still wins ties). A part whose play does not reach the leaf passes
+   * nothing further up. Any other part may change, and the answer is false.
+   */
+  choicesFixed(terminal: number, team: number, direction: 1 | -1, chain: number[]): boolean {
+    let leaf = terminal;
+    for (const root of chain) {
+      const solver = this.solvers.get(root)!;
+      const part = this.parts[root]!;
+      const reached = solver.reaches(part.entries[0]!.profile, part.leaves.indexOf(leaf));
+      if (solver.kind === 'decision') {
+        if (solver.game.nodes[0]!.team === team && direction > 0 !== reached) return false;
+      } else if (solver.kind === 'simultaneous') {
+        if (movers(solver.game).includes(team)) return false;
+      } else if (solver.kind !== 'chance') return false;
+      if (!reached) return true;
+      leaf = root;
+    }
+    return true;
   }
 
   /** What equilibrium play does along a chain: the supports of the reached information sets of its parts. */
@@ -256,14 +315,31 @@ export class RollUpSession<T> {
     const pieces: string[] = [];
     let reached = true;
     for (let c = chain.length - 1; c >= 0 && reached; c--) {
-      const root = chain[c]!;
-      const solver = this.solvers.get(root)!;
-      const profile = this.parts[root]!.entries[0]!.profile;
-      pieces.push(solver.support(profile));
-      const below = c > 0 ? chain[c - 1]! : -1;
-      if (below >= 0) reached = solver.reaches(profile, this.parts[root]!.leaves.indexOf(below));
+      const look = this.look(chain[c]!);
+      pieces.push(look.support);
+      if (c > 0) reached = this.reachesPart(chain[c]!, look, chain[c - 1]!);
     }
     return pieces.join('|');
+  }
+
+  private look(root: number) {
+    let look = this.looks.get(root);
+    if (!look) {
+      look = { support: this.solvers.get(root)!.support(this.parts[root]!.entries[0]!.profile), reaches: new Map() };
+      this.looks.set(root, look);
+    }
+    return look;
+  }
+
+  /** Whether play in the part at `root` reaches its nested part at `below`. */
+  private reachesPart(root: number, look: { reaches: Map<number, boolean> }, below: number): boolean {
+    let reached = look.reaches.get(below);
+    if (reached === undefined) {
+      const part = this.parts[root]!;
+      reached = this.solvers.get(root)!.reaches(part.entries[0]!.profile, part.leaves.indexOf(below));
+      look.reaches.set(below, reached);
+    }
+    return reached;
   }
 
   /** The current equilibrium's behaviour: a live view, updated by setPayoff(s); do not modify it. */
@@ -352,6 +428,14 @@ class PartSolver<T> {
       }
       if (out.length >= maxListed || !advanceOdometer(picks, sizes)) return out;
     }
+  }
+
+  /** The first equilibrium over the first entries of the nested parts, solved afresh: a live session's leaf values seldom repeat, so it skips the memo. */
+  first(): Entry<T> {
+    this.leafNodes.forEach((local, k) => (this.game.nodes[local]!.value = this.parts[this.leaves[k]!]!.entries[0]!.value));
+    const solution = this.solveNow().solutions[0];
+    if (!solution) throw new Error('internal: a part of the game has no equilibrium');
+    return { value: solution.value, profile: solution.profile, picks: this.leaves.map(() => 0) };
   }
 
   /**
