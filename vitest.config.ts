@@ -9,7 +9,8 @@ export default defineConfig({
     projects: [
       {
         resolve: { alias },
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+        // property tests run hundreds of cases: a generous bound, speed is measured in the benches
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 60_000 },
       },
       {
         resolve: { alias },

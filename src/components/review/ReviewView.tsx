@@ -9,6 +9,7 @@ import type { ReactNode } from 'react';
 import { api, describeError } from '../../lib/client/api';
 import { escalationFigure, regretFigure } from '../../lib/report/figures';
 import { equilibriumCountSentence } from '../../lib/review/count-sentence';
+import { anyAtUpperBound, LAMBDA_BOUND_NOTE, lambdaText } from '../../lib/review/lambda-text';
 import type { EndPoint, Review } from '../../lib/review/types';
 import { FormMessage } from '../ui/Field';
 import { withQueryClient } from '../ui/QueryRoot';
@@ -125,7 +126,9 @@ function TeamsTable({ review }: { review: Review }) {
               <td className="text-right tabular-nums">{f.moves}</td>
               <td className="text-right tabular-nums">{f.deviations}</td>
               <td className="text-right tabular-nums">{fixed(f.totalRegret)}</td>
-              <td className="text-right tabular-nums">{fixed(f.lambda)}</td>
+              <td className="text-right tabular-nums" title={f.lambdaBound === 'upper' ? 'At the top of the range searched: read as “at least”' : undefined}>
+                {lambdaText(f)}
+              </td>
               <td className="text-right tabular-nums">{fixed(f.logLikelihood.qre)}</td>
               <td className="text-right tabular-nums">{fixed(f.logLikelihood.uniform)}</td>
               <td className="text-right tabular-nums">{fixed(f.logLikelihood.trembles)}</td>
@@ -133,6 +136,8 @@ function TeamsTable({ review }: { review: Review }) {
           ))}
         </tbody>
       </table>
+      {anyAtUpperBound(review.fits) && <p className="mt-2 text-xs text-ink-600">{LAMBDA_BOUND_NOTE}</p>}
+      {!review.lambdaFit.converged && <p className="mt-2 text-xs text-bronze-800">The lambda fit stopped at its sweep limit before meeting its tolerances: the lambdas are the best found, not certainly the best.</p>}
     </div>
   );
 }
@@ -174,7 +179,7 @@ function ReviewBody({ review, csv }: { review: Review; csv: (table: string) => s
           <ul className="mt-1 text-sm text-ink-700">
             {review.fits.map((f) => (
               <li key={f.teamId}>
-                {f.team}: regret {fixed(f.totalRegret)}, lambda {fixed(f.lambda)}
+                {f.team}: regret {fixed(f.totalRegret)}, lambda {lambdaText(f)}
               </li>
             ))}
           </ul>

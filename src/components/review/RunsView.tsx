@@ -11,6 +11,7 @@ import { ACTUAL_COLOUR, TEAM_COLOURS } from '../../lib/report/render/chart';
 import { FormMessage } from '../ui/Field';
 import { withQueryClient } from '../ui/QueryRoot';
 import { fixed, percent } from './format';
+import { lambdaText } from '../../lib/review/lambda-text';
 
 const AXIS = { fontSize: 12, fill: '#34414f' };
 /** Outcomes that are some run's subgame-perfect outcome. */
@@ -132,7 +133,7 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
                   <td className="text-right tabular-nums">{fixed(r.totalRegret)}</td>
                   {overview.teams.map((t) => (
                     <td key={t.id} className="text-right tabular-nums">
-                      {fixed(r.lambdas[t.id])}
+                      {lambdaText({ lambda: r.lambdas[t.id] ?? null, lambdaBound: r.lambdasAtBound.includes(t.id) ? 'upper' : null })}
                     </td>
                   ))}
                 </tr>

@@ -18,7 +18,7 @@ import { scenarioGame, type Scenario } from '../scenario';
 export type ExerciseReview = { review: Review; record: PlayRecord; scenarioTitle: string };
 
 /** Change when the review's computation or shape changes, so stored reviews are made again. */
-const REVIEW_FORMAT = 'review/4';
+const REVIEW_FORMAT = 'review/5';
 const MEMORY_SIZE = 64;
 
 type PoolModule = typeof import('../../../server/solver/pool');

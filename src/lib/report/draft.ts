@@ -5,6 +5,7 @@
  * findings, recommendations.
  */
 import { equilibriumCountSentence, type MoveReview, type Review } from '../review';
+import { lambdaText } from '../review/lambda-text';
 import { counterfactualTable, escalationFigure, movesTable, regretFigure, teamsTable } from './figures';
 import type { JSONContent } from './schema';
 
@@ -37,7 +38,7 @@ function summary(ctx: DraftContext): JSONContent[] {
   const { review } = ctx;
   const deviations = review.moves.filter((m) => m.deviated);
   const worst = deviations.reduce<MoveReview | null>((top, m) => ((m.regret ?? 0) > (top?.regret ?? -Infinity) ? m : top), null);
-  const lambdas = review.fits.filter((f) => f.lambda !== null).map((f) => `${f.team} ${formatNumber(f.lambda!)}`);
+  const lambdas = review.fits.filter((f) => f.lambda !== null).map((f) => `${f.team} ${lambdaText(f)}`);
   const played = review.actual.terminal ? `ended at “${ending(review.actual)}”` : 'is still under way';
   const countSentence = equilibriumCountSentence(review.equilibrium);
   const sentences = [
@@ -49,7 +50,7 @@ function summary(ctx: DraftContext): JSONContent[] {
       : `Teams left the equilibrium ${deviations.length} time${deviations.length === 1 ? '' : 's'}.` +
         (worst ? ` The largest departure by this measure was ${worst.mover} at turn ${worst.turn}: “${worst.label}” where the equilibrium action was “${worst.equilibriumAction}” (regret ${formatNumber(worst.regret ?? 0)}).` : ''),
   ];
-  if (lambdas.length) sentences.push(`Fitted logit lambda (0 is random play; higher is closer to payoff-maximising): ${lambdas.join(', ')}.`);
+  if (lambdas.length) sentences.push(`Fitted logit lambda (0 is random play; higher is closer to payoff-maximising; “≥” is the top of the range searched, read as “at least”): ${lambdas.join(', ')}.`);
   return [
     paragraph(text(sentences.join(' '))),
     paragraph(text('These comparisons follow from the payoffs the scenario assumed. They are an aid to discussion, not a prediction of what any government will do.', 'italic')),

@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import type { Review } from '../review';
+import { anyAtUpperBound, LAMBDA_BOUND_NOTE, lambdaText } from '../review/lambda-text';
 
 const finite = z.number().refine(Number.isFinite, 'must be a finite number');
 
@@ -102,8 +103,8 @@ export function teamsTable(review: Review): TableSpec {
     title: 'How well each team’s play is explained',
     columns: ['Team', 'Moves', 'Deviations', 'Fitted lambda', 'Log-lik. QRE', 'Log-lik. uniform', `Log-lik. equilibrium (tremble ${review.tremble})`],
     numeric: [1, 2, 3, 4, 5, 6],
-    rows: review.fits.map((f) => [f.team, f.moves, f.deviations, fixed(f.lambda), fixed(f.logLikelihood.qre), fixed(f.logLikelihood.uniform), fixed(f.logLikelihood.trembles)]),
-    note: 'A higher (less negative) log-likelihood explains the moves better. Lambda 0 is random play; large lambda is close to payoff-maximising play.',
+    rows: review.fits.map((f) => [f.team, f.moves, f.deviations, lambdaText(f), fixed(f.logLikelihood.qre), fixed(f.logLikelihood.uniform), fixed(f.logLikelihood.trembles)]),
+    note: `A higher (less negative) log-likelihood explains the moves better. Lambda 0 is random play; large lambda is close to payoff-maximising play.${anyAtUpperBound(review.fits) ? ` ${LAMBDA_BOUND_NOTE}` : ''}`,
   };
 }
 

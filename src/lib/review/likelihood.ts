@@ -20,6 +20,7 @@ export type TeamFits = {
   lambdas: Record<string, number>;
   /** The agent QRE at those lambdas. */
   qre: Choices;
+  fit: LogitFit;
 };
 
 /** `fitted` is the engine's fit of these observations when it was made elsewhere (the solver pool). */
@@ -38,6 +39,7 @@ export function fitTeams(game: Game, observations: Observation[], equilibrium: E
       deviations: 0,
       totalRegret: 0,
       lambda: fitted ? own.lambda : null,
+      lambdaBound: fitted ? own.atBound : null,
       logLikelihood: {
         qre: fitted ? own.logLikelihood : null,
         uniform: own.uniformLogLikelihood,
@@ -45,5 +47,5 @@ export function fitTeams(game: Game, observations: Observation[], equilibrium: E
       },
     };
   });
-  return { fits, lambdas, qre: logitQre(game, { lambda: lambdas }).behaviour };
+  return { fits, lambdas, qre: logitQre(game, { lambda: lambdas }).behaviour, fit };
 }

@@ -69,7 +69,7 @@ export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOption
   const equilibrium = solved.equilibria[0]!;
   const played = playedLine(game, record.moves);
   const draws = drawsOf(record.moves);
-  const { fits, lambdas, qre } = fitTeams(game, observationsOf(record.moves), equilibrium, tremble, options.fit);
+  const { fits, lambdas, qre, fit } = fitTeams(game, observationsOf(record.moves), equilibrium, tremble, options.fit);
   const moves = record.moves.map((move, i) => reviewMove(ctx, equilibrium, qre, move, i + 1, played.nodes[i]!));
   for (const fit of fits) {
     const own = moves.filter((m) => m.teamId === fit.teamId);
@@ -90,6 +90,7 @@ export function reviewPlay(game: Game, record: PlayRecord, options: ReviewOption
     moves,
     fits,
     lambdas,
+    lambdaFit: { maxLambda: fit.maxLambda, converged: fit.converged },
     tremble,
     escalation: escalationSeries(ctx, played, equilibriumLine),
     regret: regretSeries(moves),

@@ -27,6 +27,8 @@ export type RunSummary = {
   totalRegret: number;
   /** Fitted lambda per team id; null for a team without ladder moves. */
   lambdas: Record<string, number | null>;
+  /** Team ids whose lambda is at the top of the range searched (read as "at least"). */
+  lambdasAtBound: string[];
 };
 
 export type RungFrequency = { key: string; name: string; intensity: number; total: number; share: number; byTeam: Record<string, number> };
@@ -53,6 +55,7 @@ function summarise(review: Review, record: PlayRecord): RunSummary {
     deviations: review.moves.filter((m) => m.deviated).length,
     totalRegret: review.fits.reduce((sum, f) => sum + f.totalRegret, 0),
     lambdas: Object.fromEntries(review.fits.map((f) => [f.teamId, f.lambda])),
+    lambdasAtBound: review.fits.filter((f) => f.lambdaBound === 'upper').map((f) => f.teamId),
   };
 }
 

@@ -30,6 +30,7 @@ const TEAM_COLUMNS: Column<TeamFit>[] = [
   { header: 'deviations', value: (f) => f.deviations },
   { header: 'total regret', value: (f) => round(f.totalRegret) },
   { header: 'lambda', value: (f) => round(f.lambda) },
+  { header: 'lambda at bound', value: (f) => f.lambdaBound ?? '' },
   { header: 'log-likelihood QRE', value: (f) => round(f.logLikelihood.qre) },
   { header: 'log-likelihood uniform', value: (f) => round(f.logLikelihood.uniform) },
   { header: 'log-likelihood equilibrium with trembles', value: (f) => round(f.logLikelihood.trembles) },
@@ -97,7 +98,10 @@ function runColumns(overview: RunsOverview): Column<RunSummary>[] {
     { header: 'moves', value: (r) => r.moves },
     { header: 'deviations', value: (r) => r.deviations },
     { header: 'total regret', value: (r) => round(r.totalRegret) },
-    ...overview.teams.map((t): Column<RunSummary> => ({ header: `lambda ${t.name}`, value: (r) => round(r.lambdas[t.id] ?? null) })),
+    ...overview.teams.flatMap((t): Column<RunSummary>[] => [
+      { header: `lambda ${t.name}`, value: (r) => round(r.lambdas[t.id] ?? null) },
+      { header: `lambda ${t.name} at upper bound`, value: (r) => r.lambdasAtBound.includes(t.id) },
+    ]),
   ];
 }
 

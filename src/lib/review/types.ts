@@ -59,6 +59,8 @@ export type TeamFit = {
   totalRegret: number;
   /** Maximum-likelihood logit lambda for this team's moves; null without moves to fit. */
   lambda: number | null;
+  /** 'upper': at the top of the range searched, read lambda as "at least"; 'lower': 0, random play fits best; null inside the range or without moves. */
+  lambdaBound: 'lower' | 'upper' | null;
   logLikelihood: {
     /** At the fitted lambda. */
     qre: number | null;
@@ -140,6 +142,8 @@ export type Review = {
   fits: TeamFit[];
   /** The fitted lambda of every team (0 for a team without moves), at which move probabilities are given. */
   lambdas: Record<string, number>;
+  /** The lambda fit: the top of the range it searched, and whether its ascent met its tolerances. */
+  lambdaFit: { maxLambda: number; converged: boolean };
   tremble: number;
   escalation: LevelPoint[];
   regret: RegretPoint[];

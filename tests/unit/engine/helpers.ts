@@ -1,8 +1,11 @@
-import { childEdges, indexGame, parsePlainGame, type Game, type GameNode } from '../../../src/lib/engine';
-import { CHANCE, TERMINAL, compiledGame } from '../../../src/lib/engine/compile';
+import fc from 'fast-check';
+import { readFileSync } from 'node:fs';
+import { childEdges, choiceKey, indexGame, logitQre, nodeById, parsePlainGame, type Game, type GameNode, type Observation } from '../../../src/lib/engine';
+import { CHANCE, TERMINAL, compiledGame, sourceOf } from '../../../src/lib/engine/compile';
 import { Fraction, toExact, type Field } from '../../../src/lib/engine/numbers';
 import { numbersOf } from '../../../src/lib/engine/profile';
 import type { ReducedGame, ReducedInfoset, ReducedNode } from '../../../src/lib/engine/reduced';
+import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
 
 type Pay = number | string;
 
@@ -104,4 +107,119 @@ function playOf(node: GameNode, choice: Map<GameNode, number>): string {
   if (node.kind === 'decision') return `${node.id}=${choice.get(node)}(${playOf(node.actions[choice.get(node)!]!.next, choice)})`;
   const reached = node.outcomes.filter((o) => toExact(o.p).compare(0) > 0);
   return `${node.id}[${reached.map((o) => playOf(o.next, choice)).join(',')}]`;
+}
+
+const TEAMS = ['A', 'B', 'C'];
+
+export type Plain =
+  | { payoffs: number[] }
+  | { team: string; infoset?: string; stage?: true; actions: { label: string; next: Plain }[] }
+  | { chance: { label: string; p: string; next: Plain }[] };
+
+const labels = (n: number) => Array.from({ length: n }, (_, k) => `a${k}`);
+
+/** Random trees of decisions, chance nodes and two-team simultaneous stages (small integer payoffs, so ties happen). */
+export function tree(teams: number, depth: number): fc.Arbitrary<Plain> {
+  const leaf = fc.array(fc.integer({ min: -4, max: 4 }), { minLength: teams, maxLength: teams }).map((payoffs): Plain => ({ payoffs }));
+  if (depth === 0) return leaf;
+  const child = tree(teams, depth - 1);
+  const decision = fc
+    .record({ team: fc.nat(teams - 1), children: fc.array(child, { minLength: 1, maxLength: 3 }) })
+    .map(({ team, children }): Plain => ({ team: TEAMS[team]!, actions: children.map((next, k) => ({ label: `a${k}`, next })) }));
+  const chance = fc.array(fc.tuple(fc.integer({ min: 1, max: 4 }), child), { minLength: 2, maxLength: 3 }).map((outcomes): Plain => {
+    const total = outcomes.reduce((s, [w]) => s + w, 0);
+    return { chance: outcomes.map(([w, next], k) => ({ label: `c${k}`, p: `${w}/${total}`, next })) };
+  });
+  const stage = fc
+    .record({ row: fc.nat(teams - 1), shift: fc.integer({ min: 1, max: teams - 1 }), rows: fc.integer({ min: 2, max: 3 }), cols: fc.integer({ min: 2, max: 3 }) })
+    .chain(({ row, shift, rows, cols }) =>
+      fc.array(child, { minLength: rows * cols, maxLength: rows * cols }).map(
+        (cells): Plain => ({
+          team: TEAMS[row]!,
+          stage: true,
+          actions: labels(rows).map((label, i) => ({
+            label,
+            next: { team: TEAMS[(row + shift) % teams]!, actions: labels(cols).map((l, j) => ({ label: l, next: cells[i * cols + j]! })) },
+          })),
+        }),
+      ),
+    );
+  return fc.oneof({ weight: 1, arbitrary: leaf }, { weight: 2, arbitrary: decision }, { weight: 1, arbitrary: chance }, { weight: 2, arbitrary: stage });
+}
+
+/** Give each stage's second movers one information set of their own. */
+function numberStages(node: Plain, counter = { next: 0 }): Plain {
+  if ('payoffs' in node) return node;
+  if ('chance' in node) return { chance: node.chance.map((o) => ({ ...o, next: numberStages(o.next, counter) })) };
+  const { stage, ...rest } = node;
+  const infoset = stage ? `h${counter.next++}` : undefined;
+  return {
+    ...rest,
+    actions: node.actions.map((a) => {
+      const next = numberStages(a.next, counter);
+      return { ...a, next: infoset && 'actions' in next ? { ...next, infoset } : next };
+    }),
+  };
+}
+
+/** Random games of two or three teams: decisions, chance and simultaneous stages down to `depth`. */
+export const gamesOfDepth = (depth: number) =>
+  fc.integer({ min: 2, max: 3 }).chain((teams) => tree(teams, depth).map((root) => plain(TEAMS.slice(0, teams), numberStages(root))));
+
+
+/** The demo scenario's game (scenarios/serrin-strait.json). */
+export function demoGame(): Game {
+  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
+  if (!parsed.ok) throw new Error('demo scenario does not parse');
+  return scenarioGame(parsed.scenario);
+}
+
+/**
+ * The moves the Review fits for the seeded finished run of the demo (server/seed/exercises.ts):
+ * the teams' own ladder moves; the adjudicated hold and the chance draw are passed through.
+ */
+export function seededRunMoves(game: Game): Observation[] {
+  const line: [string, boolean][] = [
+    ['Climb to Exclusion zone', true],
+    ['Hold at Exclusion zone', false],
+    ['Stand aside', true],
+    ['Collision between patrol vessels', false],
+    ['Step down to Exclusion zone', true],
+    ['Climb to Partial blockade', true],
+    ['Broker a settlement', true],
+  ];
+  const moves: Observation[] = [];
+  let node = game.root;
+  for (const [label, fitted] of line) {
+    const edge = childEdges(node).find((e) => e.label === label)!;
+    if (fitted) moves.push({ node: node.id, label });
+    node = edge.next;
+  }
+  return moves;
+}
+
+/** Moves at decision nodes picked by [node, action] numbers (modulo what there is), of one team or, without `team`, of any. */
+export function movesAt(game: Game, picks: [number, number][], team?: number): Observation[] {
+  const decisions = sourceOf(compiledGame(game)).nodes.filter(
+    (n): n is Extract<GameNode, { kind: 'decision' }> => n.kind === 'decision' && (team === undefined || n.team === game.teams[team % game.teams.length]!.id),
+  );
+  if (decisions.length === 0) return [];
+  return picks.map(([n, a]) => {
+    const node = decisions[n % decisions.length]!;
+    return { node: node.id, label: node.actions[a % node.actions.length]!.label };
+  });
+}
+
+/**
+ * Log-likelihood of moves under a fresh logitQre at per-team lambdas (team order); of one
+ * team's moves with `team`. -Infinity where the QRE cannot be traced, as in fitLogit.
+ */
+export function freshLikelihood(game: Game, observations: Observation[], lambdas: number[], team?: number): number {
+  const { behaviour, converged } = logitQre(game, { lambda: Object.fromEntries(game.teams.map((t, i) => [t.id, lambdas[i]!])) });
+  if (!converged) return -Infinity;
+  return observations.reduce((sum, o) => {
+    const node = nodeById(game, o.node!) as Extract<GameNode, { kind: 'decision' }>;
+    if (team !== undefined && node.team !== game.teams[team]!.id) return sum;
+    return sum + Math.log(behaviour[choiceKey(node)]![o.label]!);
+  }, 0);
 }

@@ -203,6 +203,40 @@ describe('support enumeration on random bimatrix stages', () => {
       { numRuns: 200 },
     );
   });
+
+  it('finds at least one equilibrium (Nash 1951) in floats and exactly when payoffs differ by a hair, where a mix may put 1e-10 on a move', () => {
+    // One payoff of an integer stage nudged by 1e-12 to 1e-6: the stages that payoff
+    // intervals and Monte Carlo samples meet next to a tie.
+    const nudged = fc.tuple(bimatrices(3), fc.nat(), fc.nat(), fc.boolean(), fc.double({ min: -6, max: -1, noNaN: true }), fc.boolean());
+    fc.assert(
+      fc.property(nudged, ([[A0, B0], i, j, onRow, exponent, up]) => {
+        const [A, B] = [A0.map((row) => [...row]), B0.map((row) => [...row])];
+        const [P, r, c] = [onRow ? A : B, i % A.length, j % A[0]!.length];
+        P[r]![c]! += (up ? 1 : -1) * 10 ** (exponent * 2);
+        const stage = { rowLabels: A.map((_, k) => `${k}`), colLabels: A[0]!.map((_, k) => `${k}`), rowPayoff: A, colPayoff: B };
+        for (const exact of [false, true]) {
+          const { equilibria } = supportEnumeration(stage, { exact });
+          expect(equilibria.length).toBeGreaterThan(0);
+          for (const e of equilibria) {
+            const rowValues = A.map((row) => row.reduce((s, a, k) => s + a * e.col[k]!, 0));
+            const colValues = A[0]!.map((_, k) => B.reduce((s, row, h) => s + row[k]! * e.row[h]!, 0));
+            e.row.forEach((p, h) => p > 0 && expect(rowValues[h]!).toBeGreaterThan(Math.max(...rowValues) - 1e-8));
+            e.col.forEach((p, k) => p > 0 && expect(colValues[k]!).toBeGreaterThan(Math.max(...colValues) - 1e-8));
+          }
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('finds the one mixed equilibrium of a stage whose column mix is 13 in 14,166,500,013 (worked by hand)', () => {
+    // Row indifference: 2(1 - y) = 2.8333 y + 1.9999999974 (1 - y), so y = 2.6e-9 / 2.8333000026;
+    // column indifference: 0 = -x + 0.1667 (1 - x), so x = 1667 / 11667.
+    const stage = { rowLabels: ['a', 'b'], colLabels: ['c', 'd'], rowPayoff: [[0, 2], [2.8333, 1.9999999974]], colPayoff: [[0, -1], [0, 0.1667]] };
+    expect(supportEnumeration(stage).equilibria.map((e) => [e.rowExact, e.colExact])).toEqual([[['1667/11667', '10000/11667'], ['13/14166500013', '14166500000/14166500013']]]);
+    const [float] = supportEnumeration(stage, { exact: false }).equilibria;
+    expect(float!.col[0]).toBeCloseTo(13 / 14166500013, 15);
+  });
 });
 
 /** Two-team games where the second mover cannot see the first move (and chance may intervene). */

@@ -39,14 +39,15 @@ describe('across the runs of one scenario (hand-made runs, no source)', () => {
     expect(Object.keys(overview.runs[0]!.lambdas)).toEqual(['first', 'second']);
     expect(overview.runs[1]!.lambdas.second).toBeNull();
     // With Red unobserved (lambda 0, uniform), Raise is worth 3/4 * (3 - 2) / 2 = 0.375 < 1 for Hold:
-    // Hold is the logit-better move, so the likelihood keeps rising with lambda and the fit runs high.
+    // Hold is the logit-better move, so the likelihood keeps rising with lambda and the fit runs to the bound.
     expect(overview.runs[1]!.lambdas.first).toBeGreaterThan(30);
+    expect(overview.runs[1]!.lambdasAtBound).toEqual(['first']);
   });
 
   it('exports the tables as CSV with a column per team', () => {
     const lines = RUNS_TABLES.runs.csv(overview).split('\r\n');
-    expect(lines[0]).toBe('exercise,state,ended,outcome,equilibrium outcome,reached equilibrium,moves,deviations,total regret,lambda Blue,lambda Red');
-    expect(lines[2]).toMatch(/^Run B,ended,2026-01-05T11:00:00\.000Z,Talks,Red backs down,no,1,1,1\.25,\d+(\.\d+)?,$/);
+    expect(lines[0]).toBe('exercise,state,ended,outcome,equilibrium outcome,reached equilibrium,moves,deviations,total regret,lambda Blue,lambda Blue at upper bound,lambda Red,lambda Red at upper bound');
+    expect(lines[2]).toMatch(/^Run B,ended,2026-01-05T11:00:00\.000Z,Talks,Red backs down,no,1,1,1\.25,\d+(\.\d+)?,yes,,no$/);
     expect(RUNS_TABLES.rungs.csv(overview).split('\r\n')[2]).toBe('Patrol,2,4,0.6667,3,1');
   });
 });

@@ -95,8 +95,15 @@ export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { eq
   const exactY = new Map<number, Vertex<T> | null>();
   const confirm = (cache: Map<number, Vertex<T> | null>, P: T[][], c: Candidate, own: number, index: number) => {
     if (!cache.has(index)) {
-      const solved = solveFor(field, P, c.S, c.K, own);
-      cache.set(index, solved && isBestResponseVertex(field, P, solved) ? describe(field, P, solved) : null);
+      let found: Vertex<T> | null = null;
+      for (const { S, K } of [c, ...c.alternatives]) {
+        const solved = solveFor(field, P, S, K, own);
+        if (solved && isBestResponseVertex(field, P, solved)) {
+          found = describe(field, P, solved);
+          break;
+        }
+      }
+      cache.set(index, found);
     }
     return cache.get(index)!;
   };
@@ -134,12 +141,18 @@ interface Candidate {
   K: number[];
   strategy: number[];
   value: number;
+  /**
+   * Other (S, K) whose float solution is the same strategy to 9 decimals. Next to a tie
+   * the float tolerance lets a K that misses the true best response through; the exact
+   * pass tries these in turn when the first does not hold exactly.
+   */
+  alternatives: { S: number[]; K: number[] }[];
 }
 
 /** The float pass: one (S, K) per distinct best-response vertex, with its float solution. */
 function floatCandidates(P: number[][], own: number, other: number): Candidate[] {
   const out: Candidate[] = [];
-  const seen = new Set<string>();
+  const seen = new Map<string, Candidate>();
   const size = Math.min(own, other) + 1;
   const m = new Float64Array(size * (size + 1));
   const z = new Float64Array(size);
@@ -151,9 +164,14 @@ function floatCandidates(P: number[][], own: number, other: number): Candidate[]
         const strategy = new Array<number>(own).fill(0);
         S.forEach((i, a) => (strategy[i] = Math.abs(z[a]!) < 1e-12 ? 0 : z[a]!));
         const key = strategy.map((v) => v.toFixed(9)).join(',');
-        if (seen.has(key)) continue;
-        seen.add(key);
-        out.push({ S, K, strategy, value: z[k]! });
+        const known = seen.get(key);
+        if (known) {
+          known.alternatives.push({ S, K });
+          continue;
+        }
+        const candidate = { S, K, strategy, value: z[k]!, alternatives: [] };
+        seen.set(key, candidate);
+        out.push(candidate);
       }
     }
   }
@@ -232,12 +250,21 @@ function isBestResponseVertex<T>(field: Field<T>, P: T[][], c: { strategy: T[]; 
   return P.every((row) => field.cmp(payoffAgainst(field, row, c.strategy), c.value) <= 0);
 }
 
+/**
+ * A vertex's support and the opponent's best responses to it. The support is the set of
+ * strictly positive probabilities, never judged with the payoff tolerance: in floats a
+ * probability of 1e-10 is still a mixed strategy (a near-degenerate stage can have its only
+ * equilibrium there), and treating it as 0 while keeping the value solved with it would
+ * make the vertex disagree with itself (floatCandidates has already snapped rounding noise
+ * below 1e-12 to 0).
+ */
 function describe<T>(field: Field<T>, P: T[][], c: { strategy: T[]; value: T }): Vertex<T> {
-  const strategy = c.strategy.map((v) => (field.cmp(v, field.zero) === 0 ? field.zero : v));
+  const positive = (v: T) => (field.exact ? field.cmp(v, field.zero) > 0 : field.toNumber(v) > 0);
+  const strategy = c.strategy.map((v) => (positive(v) ? v : field.zero));
   return {
     strategy,
     value: c.value,
-    support: strategy.flatMap((v, i) => (field.cmp(v, field.zero) > 0 ? [i] : [])),
+    support: strategy.flatMap((v, i) => (positive(v) ? [i] : [])),
     bestResponses: P.flatMap((row, j) => (field.cmp(payoffAgainst(field, row, strategy), c.value) === 0 ? [j] : [])),
   };
 }
