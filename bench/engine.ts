@@ -5,7 +5,6 @@
 import {
   backwardInduction,
   buildLadder,
-  childEdges,
   compiledGame,
   fitLogit,
   monteCarlo,
@@ -18,12 +17,12 @@ import {
   type Game,
   type GameNode,
   type LadderSpec,
-  type Observation,
   type PayoffRange,
   type Rng,
 } from '../src/lib/engine';
 import { CHANCE, TERMINAL } from '../src/lib/engine';
 import { parseScenario, scenarioGame } from '../src/lib/scenario';
+import { seededRunMoves } from '../server/seed/demo-run';
 import { readFileSync } from 'node:fs';
 
 interface Row {
@@ -234,31 +233,6 @@ function monteCarloRuns() {
   const demoRanges = scenario.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
   const onDemo = time(1, () => monteCarlo(demo, demoRanges, { samples: 10_000, seed: 6 }));
   rows.push({ name: '  same on the Serrin Strait demo (simultaneous stages)', measured: `${(onDemo.ms / 1000).toFixed(2)} s`, target: '-' });
-}
-
-/**
- * The seeded run of the demo (server/seed/exercises.ts) as the Review fits it: the teams'
- * own ladder moves; the adjudicated hold and the chance draw are passed through.
- */
-function seededRunMoves(game: Game): Observation[] {
-  const line: [string, boolean][] = [
-    ['Climb to Exclusion zone', true],
-    ['Hold at Exclusion zone', false],
-    ['Stand aside', true],
-    ['Collision between patrol vessels', false],
-    ['Step down to Exclusion zone', true],
-    ['Climb to Partial blockade', true],
-    ['Broker a settlement', true],
-  ];
-  const moves: Observation[] = [];
-  let node = game.root;
-  for (const [label, fitted] of line) {
-    const edge = childEdges(node).find((e) => e.label === label);
-    if (!edge) throw new Error(`the demo tree has no "${label}" at ${node.id}`);
-    if (fitted) moves.push({ node: node.id, label });
-    node = edge.next;
-  }
-  return moves;
 }
 
 /** The two analyses the Review and the Studio wait on, on the demo; each run compiles a fresh copy, as a pool worker does. */

@@ -51,3 +51,13 @@ export function sponsorAddresses(exerciseId: string): { name: string; email: str
     .where(and(eq(schema.membership.exerciseId, exerciseId), eq(schema.membership.role, 'sponsor')))
     .all();
 }
+
+/** For pages: the access record, or null for an exercise that does not exist (the page shows its own refusal). */
+export function exerciseAccessForPage(userId: string, exerciseId: string | undefined): ExerciseAccess | null {
+  try {
+    return exerciseAccess(userId, exerciseId ?? '');
+  } catch (error) {
+    if (error instanceof HttpError && error.status === 404) return null;
+    throw error;
+  }
+}

@@ -6,6 +6,7 @@ import { Fraction, toExact, type Field } from '../../../src/lib/engine/numbers';
 import { numbersOf } from '../../../src/lib/engine/profile';
 import type { ReducedGame, ReducedInfoset, ReducedNode } from '../../../src/lib/engine/reduced';
 import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+export { seededRunMoves } from '../../../server/seed/demo-run';
 
 type Pay = number | string;
 
@@ -172,30 +173,6 @@ export function demoGame(): Game {
   const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
   if (!parsed.ok) throw new Error('demo scenario does not parse');
   return scenarioGame(parsed.scenario);
-}
-
-/**
- * The moves the Review fits for the seeded finished run of the demo (server/seed/exercises.ts):
- * the teams' own ladder moves; the adjudicated hold and the chance draw are passed through.
- */
-export function seededRunMoves(game: Game): Observation[] {
-  const line: [string, boolean][] = [
-    ['Climb to Exclusion zone', true],
-    ['Hold at Exclusion zone', false],
-    ['Stand aside', true],
-    ['Collision between patrol vessels', false],
-    ['Step down to Exclusion zone', true],
-    ['Climb to Partial blockade', true],
-    ['Broker a settlement', true],
-  ];
-  const moves: Observation[] = [];
-  let node = game.root;
-  for (const [label, fitted] of line) {
-    const edge = childEdges(node).find((e) => e.label === label)!;
-    if (fitted) moves.push({ node: node.id, label });
-    node = edge.next;
-  }
-  return moves;
 }
 
 /** Moves at decision nodes picked by [node, action] numbers (modulo what there is), of one team or, without `team`, of any. */
