@@ -113,7 +113,7 @@ function RunsView({ scenarioId }: { scenarioId: string }) {
                 <th scope="col" className="text-right">Regret</th>
                 {overview.teams.map((t) => (
                   <th key={t.id} scope="col" className="text-right">
-                    λ {t.name}
+                    Lambda, {t.name}
                   </th>
                 ))}
               </tr>
