@@ -6,6 +6,7 @@ export {
   equilibriumCountPhrase,
   equilibriumCounts,
   fitLogit,
+  LAMBDA_RANGE,
   hasSeveralPlays,
   indexGame,
   logitQre,

@@ -62,16 +62,16 @@ function logLikelihood(obs: ResolvedObservation[], behaviour: Behaviour, team?: 
 }
 
 /**
- * The log-likelihood of the observations under the agent QRE, as a function of the
- * lambdas: one workspace solved again at each trial, the moves read straight from its
- * probabilities (where each observed move's probability lies is found once). Lambdas at
- * which the QRE cannot be traced (the continuation fails) score -Infinity: the fit never
- * stands on a point whose probabilities are not those of the model.
+ * The log-likelihood of the observations (of one team's, with `team`) under the agent
+ * QRE, as a function of the lambdas: one workspace solved again at each trial, the moves
+ * read straight from its probabilities (where each observed move's probability lies is
+ * found once). Lambdas at which the QRE cannot be traced (the continuation fails) score
+ * -Infinity: the fit never stands on a point whose probabilities are not those of the model.
  */
-function qreLikelihood(flat: FlatGame, obs: ResolvedObservation[]) {
+function qreLikelihood(flat: FlatGame, obs: ResolvedObservation[]): (lambdas: ArrayLike<number>, team?: number) => number {
   const workspace = new QreWorkspace(flat);
   const slots = Int32Array.from(obs, (o) => workspace.offset[o.infoset]! + o.action);
-  const sum = (lambdas: ArrayLike<number>, team?: number) => {
+  return (lambdas, team) => {
     const solved = workspace.solve(lambdas);
     if (!solved.converged) return -Infinity;
     let total = 0;
@@ -80,7 +80,6 @@ function qreLikelihood(flat: FlatGame, obs: ResolvedObservation[]) {
     });
     return total;
   };
-  return { total: (lambdas: ArrayLike<number>) => sum(lambdas), perTeam: (lambdas: ArrayLike<number>, team: number) => sum(lambdas, team) };
 }
 
 function uniformLogLikelihood(obs: ResolvedObservation[], team?: number): number {
@@ -112,13 +111,13 @@ export interface LogitFit {
   uniformLogLikelihood: number;
   /** Upper end of the lambda range searched. */
   maxLambda: number;
-  /** The last sweep met both tolerances (FIT_TOLERANCE); false when the sweep cap stopped the ascent first. */
+  /** A closing whole-range sweep met both tolerances (FIT_TOLERANCE); false when the sweep cap stopped the ascent first. */
   converged: boolean;
   sweeps: number;
 }
 
 export interface LogitFitOptions {
-  /** Upper end of the range; by default 10,000 / (payoff range), see defaultMaxLambda. */
+  /** Upper end of the range; by default LAMBDA_RANGE / (payoff range), see defaultMaxLambda. */
   maxLambda?: number;
   /** Sweep cap (FIT_TOLERANCE.maxSweeps by default). */
   maxSweeps?: number;
@@ -126,17 +125,21 @@ export interface LogitFitOptions {
 }
 
 /**
- * When the coordinate ascent stops: a sweep (one search per observed team, then the
- * pattern step) gained less than `logLikelihood` x max(1, |log-likelihood|) and moved no
- * lambda by more than `logLambda` in log lambda (a relative 0.01%); or `maxSweeps` sweeps.
+ * When a sweep has settled: it (one search per observed team, then the pattern and Newton
+ * steps) gained less than `logLikelihood` x max(1, |log-likelihood|) and moved no lambda
+ * by more than `logLambda` in log lambda (a relative 0.01%). The ascent stops when a
+ * whole-range sweep after a settled one settles too (see coordinateAscent), or after
+ * `maxSweeps` sweeps.
  */
 export const FIT_TOLERANCE = { logLikelihood: 1e-9, logLambda: 1e-4, maxSweeps: 50 } as const;
 
 /**
- * Upper end of the lambda range: 10,000 / (payoff range). There a payoff difference of a
- * thousandth of the game's payoff range already gives odds of e^10 (about 22,000 to 1) for
- * the better action, so a larger lambda is told apart only by still smaller differences.
+ * Upper end of the lambda range: LAMBDA_RANGE / (payoff range). There a payoff difference
+ * of a thousandth of the game's payoff range already gives odds of e^10 (about 22,000 to 1)
+ * for the better action, so a larger lambda is told apart only by still smaller differences.
  */
+export const LAMBDA_RANGE = 1e4;
+
 function defaultMaxLambda(flat: FlatGame): number {
   let lo = Infinity;
   let hi = -Infinity;
@@ -144,7 +147,7 @@ function defaultMaxLambda(flat: FlatGame): number {
     lo = Math.min(lo, v);
     hi = Math.max(hi, v);
   }
-  return 1e4 / Math.max(hi - lo, 1e-9);
+  return LAMBDA_RANGE / Math.max(hi - lo, 1e-9);
 }
 
 /**
@@ -161,14 +164,14 @@ export function fitLogit(game: Game, observations: Observation[], options: Logit
   const maxLambda = options.maxLambda ?? defaultMaxLambda(flat);
   if (!(Number.isFinite(maxLambda) && maxLambda > 0)) throw new Error('maxLambda must be a finite number > 0');
   const observed = game.teams.map((_, t) => obs.some((o) => o.team === t));
-  const ascent = coordinateAscent(likelihood.total, observed, new LambdaSearch(maxLambda), options);
+  const ascent = coordinateAscent(likelihood, observed, new LambdaSearch(maxLambda), options);
   const { lambdas } = ascent;
   const teams: Record<string, TeamFit> = {};
   game.teams.forEach((team, t) => {
     teams[team.id] = {
       lambda: lambdas[t]!,
       atBound: !observed[t] ? null : lambdas[t] === maxLambda ? 'upper' : lambdas[t] === 0 ? 'lower' : null,
-      logLikelihood: likelihood.perTeam(lambdas, t),
+      logLikelihood: likelihood(lambdas, t),
       uniformLogLikelihood: uniformLogLikelihood(obs, t),
       observations: obs.filter((o) => o.team === t).length,
     };
@@ -286,7 +289,7 @@ function patternStep(total: (lambdas: Float64Array) => number, lambdas: Float64A
   for (let k = 1; k <= 8; k *= 2) {
     const trial = Float64Array.from(origin, (l, t) => Math.min(max, l * ratio[t]! ** k));
     const value = total(trial);
-    if (!(value > best)) break;
+    if (!gains(value, best)) break;
     lambdas.set(trial);
     best = value;
   }
