@@ -23,7 +23,7 @@ export { MethodDoesNotApply } from './solvers/pure-enumeration';
 export { RayTermination } from './solvers/sequence-form';
 export { assessMarks, type Mark, type MarkKind, type CredibilityVerdict } from './solvers/credibility';
 export { logitQre, qreFlat, type QreResult, type QreOptions, type Progress } from './solvers/qre';
-export { fitLogit, trembleLogLikelihood, LAMBDA_RANGE, type Observation, type LogitFit, type TeamFit, type TrembleLikelihood } from './solvers/logit-fit';
+export { fitLogit, trembleLogLikelihood, LAMBDA_RANGE, FIT_TOLERANCE, type Observation, type LogitFit, type TeamFit, type TrembleLikelihood } from './solvers/logit-fit';
 export { sensitivity, type PayoffInterval, type SensitivityResult } from './solvers/sensitivity';
 export { monteCarlo, sampleDistribution, type PayoffRange, type PayoffDistribution, type MonteCarloResult, type OutcomeShare } from './solvers/monte-carlo';
 export { ewlOutcome, ewlEquilibria, ewlCurves, EWL_C, EWL_D, EWL_Q, type TwoByTwo, type EwlStrategy, type EwlEquilibrium, type EwlCurve } from './solvers/ewl';
