@@ -1,7 +1,8 @@
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO, startApp, type App } from '../support/app';
+import { DEMO, DEMO_PASSWORD, startApp, type App } from '../support/app';
 import { launchContext, screenshot, signInThroughForm } from '../support/browser';
+import { DEMO_PEOPLE } from '../../server/seed/people';
 
 let app: App;
 let browser: BrowserContext;
@@ -40,6 +41,30 @@ describe('e2e: signing in', () => {
     await page.getByRole('button', { name: 'Sign in' }).click();
     await expect.poll(() => page.getByRole('alert').textContent()).toContain('do not match an account');
     expect(await page.getByLabel('E-mail address').inputValue()).toBe(DEMO.red);
+    await page.close();
+  });
+
+  it('waits for the page script when the form is used before it has run, and never puts the password in the address', async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    // Hold back every script of the page for two seconds: the server-rendered form is on screen, not yet live.
+    await page.route('**/_astro/**', async (route) => {
+      await new Promise((done) => setTimeout(done, 2_000));
+      await route.continue();
+    });
+    const addresses: string[] = [];
+    page.on('framenavigated', (frame) => frame === page.mainFrame() && addresses.push(frame.url()));
+    await page.goto(`${app.url}/sign-in`, { waitUntil: 'commit' });
+    await page.getByLabel('E-mail address').fill(DEMO.observer);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    const button = page.getByRole('button', { name: 'Sign in' });
+    expect(await button.isDisabled()).toBe(true);
+    await page.getByLabel('Password').press('Enter');
+    await button.click();
+    await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+    await expect.poll(() => page.getByTestId('user-name').textContent()).toBe(DEMO_PEOPLE.observer.name);
+    expect(addresses.join(' ')).not.toContain(DEMO_PASSWORD);
+    expect(addresses.join(' ')).not.toContain('password=');
     await page.close();
   });
 

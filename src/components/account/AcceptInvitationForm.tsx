@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { api, describeError } from '../../lib/client/api';
 import { Field, FormMessage } from '../ui/Field';
 import { NewPasswordFields, newPasswordSchema } from './NewPasswordFields';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.intersection(
   z.object({ name: z.string().trim().min(2, 'Enter your name (2 characters or more)').max(120) }),
@@ -27,7 +28,7 @@ export default function AcceptInvitationForm({ token, email }: { token: string; 
   };
 
   return (
-    <form onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
+    <form method="post" onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
       {failure && <FormMessage tone="error">{failure}</FormMessage>}
       <Field id="email" label="E-mail address">
         <input id="email" className="field-input bg-ink-50" value={email} readOnly />
@@ -36,9 +37,9 @@ export default function AcceptInvitationForm({ token, email }: { token: string; 
         <input id="name" autoComplete="name" className="field-input" {...register('name')} />
       </Field>
       <NewPasswordFields register={register} errors={formState.errors} />
-      <button type="submit" className="btn-primary w-full" disabled={formState.isSubmitting}>
+      <SubmitButton className="btn-primary w-full" disabled={formState.isSubmitting}>
         Create my account
-      </button>
+      </SubmitButton>
     </form>
   );
 }

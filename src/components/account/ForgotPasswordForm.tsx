@@ -4,6 +4,7 @@ import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { authClient, authErrorMessage } from '../../lib/client/auth-client';
 import { Field, FormMessage } from '../ui/Field';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.object({ email: z.email('Enter your e-mail address') });
 type Values = z.infer<typeof schema>;
@@ -22,14 +23,14 @@ export default function ForgotPasswordForm() {
   };
 
   return (
-    <form onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
+    <form method="post" onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
       {outcome && <FormMessage tone={outcome.tone}>{outcome.text}</FormMessage>}
       <Field id="email" label="E-mail address" error={formState.errors.email?.message}>
         <input id="email" type="email" autoComplete="username" className="field-input" {...register('email')} />
       </Field>
-      <button type="submit" className="btn-primary w-full" disabled={formState.isSubmitting}>
+      <SubmitButton className="btn-primary w-full" disabled={formState.isSubmitting}>
         Send the reset link
-      </button>
+      </SubmitButton>
       <p className="text-center text-sm">
         <a href="/sign-in">Back to sign-in</a>
       </p>

@@ -5,6 +5,7 @@ import type { z } from 'zod';
 import { authClient, authErrorMessage } from '../../lib/client/auth-client';
 import { FormMessage } from '../ui/Field';
 import { NewPasswordFields, newPasswordSchema } from './NewPasswordFields';
+import { SubmitButton } from '../ui/SubmitButton';
 
 type Values = z.infer<typeof newPasswordSchema>;
 
@@ -26,12 +27,12 @@ export default function ResetPasswordForm({ token }: { token: string }) {
     );
   }
   return (
-    <form onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
+    <form method="post" onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
       {outcome && <FormMessage tone="error">{outcome.text}</FormMessage>}
       <NewPasswordFields register={register} errors={formState.errors} />
-      <button type="submit" className="btn-primary w-full" disabled={formState.isSubmitting}>
+      <SubmitButton className="btn-primary w-full" disabled={formState.isSubmitting}>
         Set the new password
-      </button>
+      </SubmitButton>
     </form>
   );
 }

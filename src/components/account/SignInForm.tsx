@@ -4,6 +4,7 @@ import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { authClient, authErrorMessage } from '../../lib/client/auth-client';
 import { Field, FormMessage } from '../ui/Field';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.object({
   email: z.email('Enter your e-mail address'),
@@ -24,7 +25,7 @@ export default function SignInForm({ next }: { next: string }) {
   };
 
   return (
-    <form onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
+    <form method="post" onSubmit={handleSubmit(onSubmit)} className="space-y-4" noValidate>
       {failure && <FormMessage tone="error">{failure}</FormMessage>}
       <Field id="email" label="E-mail address" error={errors.email?.message}>
         <input id="email" type="email" autoComplete="username" className="field-input" aria-invalid={!!errors.email} {...register('email')} />
@@ -32,9 +33,9 @@ export default function SignInForm({ next }: { next: string }) {
       <Field id="password" label="Password" error={errors.password?.message}>
         <input id="password" type="password" autoComplete="current-password" className="field-input" aria-invalid={!!errors.password} {...register('password')} />
       </Field>
-      <button type="submit" className="btn-primary w-full" disabled={isSubmitting}>
+      <SubmitButton className="btn-primary w-full" disabled={isSubmitting}>
         {isSubmitting ? 'Signing in…' : 'Sign in'}
-      </button>
+      </SubmitButton>
       <p className="text-center text-sm">
         <a href="/forgot-password">Forgot your password?</a>
       </p>

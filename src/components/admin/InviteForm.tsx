@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { PLATFORM_ROLES, type PlatformRole } from '../../lib/roles';
 import { api, ApiError, describeError } from '../../lib/client/api';
 import { Field, FormMessage } from '../ui/Field';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.object({ email: z.email('Enter a valid e-mail address'), role: z.enum(PLATFORM_ROLES) });
 type Values = z.infer<typeof schema>;
@@ -47,9 +48,9 @@ export function InviteForm({ roles }: { roles: PlatformRole[] }) {
           </select>
         </Field>
       </div>
-      <button type="submit" className="btn-primary" disabled={send.isPending}>
+      <SubmitButton className="btn-primary" disabled={send.isPending}>
         {send.isPending ? 'Sending…' : 'Send invitation'}
-      </button>
+      </SubmitButton>
     </form>
   );
 }

@@ -6,6 +6,7 @@ import { AfterPlayLinks, Analysis, Empty, Injects, MissedNotice, MoveList, Panel
 import type { LiveState } from '../../lib/exercise/live-client';
 import type { Snapshot } from '../../lib/exercise/view';
 import { Roster, SettingsForm, AuditLog } from './Setup';
+import { SubmitButton } from '../ui/SubmitButton';
 
 type Props = { exerciseId: string; initial: Initial };
 type Tab = 'run' | 'setup' | 'log';
@@ -99,9 +100,9 @@ function PhaseControls({ view, send }: { view: Snapshot; send: Send }) {
             }}
           >
             <input aria-label="Why end now (optional)" className="field-input w-56 py-1.5" placeholder="Why end now (optional)" value={reason} onChange={(e) => setReason(e.target.value)} autoFocus />
-            <button type="submit" className="btn-danger">
+            <SubmitButton className="btn-danger">
               End now
-            </button>
+            </SubmitButton>
             <button type="button" className="btn-quiet" onClick={() => setEnding(false)}>
               Cancel
             </button>
@@ -349,9 +350,9 @@ function Adjudicate({ view, send, teamId, proposal }: { view: Snapshot; send: Se
         <textarea className="field-input" rows={2} value={reason} required minLength={3} maxLength={2000} onChange={(e) => setReason(e.target.value)} aria-label="Reason" />
       </label>
       <div className="flex gap-2">
-        <button type="submit" className="btn-primary py-1.5" disabled={adjudicate.busy || !choice || reason.trim().length < 3}>
+        <SubmitButton className="btn-primary py-1.5" disabled={adjudicate.busy || !choice || reason.trim().length < 3}>
           Record the decision
-        </button>
+        </SubmitButton>
         {!proposal && (
           <button type="button" className="btn-quiet py-1.5" onClick={() => setOpen(false)}>
             Cancel
@@ -398,9 +399,9 @@ function ChanceControls({ view, send }: { view: Snapshot; send: Send }) {
           <span className="field-label">Reason</span>
           <input className="field-input" value={reason} onChange={(e) => setReason(e.target.value)} required minLength={3} aria-label="Reason for the chosen outcome" />
         </label>
-        <button type="submit" className="btn-quiet" disabled={chance.busy || !outcome || reason.trim().length < 3}>
+        <SubmitButton className="btn-quiet" disabled={chance.busy || !outcome || reason.trim().length < 3}>
           Use this outcome
-        </button>
+        </SubmitButton>
       </form>
       {chance.error && <FormMessage tone="error">{chance.error}</FormMessage>}
     </div>
@@ -427,9 +428,9 @@ function UndoControl({ view, send }: { view: Snapshot; send: Send }) {
             <span className="field-label">Why undo turn {last.turn}?</span>
             <input className="field-input" value={reason} onChange={(e) => setReason(e.target.value)} required minLength={3} autoFocus aria-label="Reason for the undo" />
           </label>
-          <button type="submit" className="btn-danger" disabled={undo.busy || reason.trim().length < 3}>
+          <SubmitButton className="btn-danger" disabled={undo.busy || reason.trim().length < 3}>
             Undo turn {last.turn}
-          </button>
+          </SubmitButton>
           <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>
             Cancel
           </button>
@@ -520,9 +521,9 @@ function InjectComposer({ view, send }: { view: Snapshot; send: Send }) {
             ))}
           </fieldset>
         )}
-        <button type="submit" className="btn-primary py-1.5" disabled={!sendable || inject.busy || !title.trim() || !body.trim()}>
+        <SubmitButton className="btn-primary py-1.5" disabled={!sendable || inject.busy || !title.trim() || !body.trim()}>
           Send the inject
-        </button>
+        </SubmitButton>
         {!sendable && <p className="text-xs text-ink-600">Injects can be sent from the briefing until play ends.</p>}
         {inject.error && <FormMessage tone="error">{inject.error}</FormMessage>}
         {inject.done && <FormMessage tone="ok">{inject.done}</FormMessage>}

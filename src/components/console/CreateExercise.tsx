@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { api, ApiError, describeError } from '../../lib/client/api';
 import { Field, FormMessage } from '../ui/Field';
 import { useState } from 'react';
+import { SubmitButton } from '../ui/SubmitButton';
 
 export type VersionChoice = { id: string; label: string; scenarioTitle: string; frozen: boolean };
 
@@ -46,9 +47,9 @@ export default function CreateExercise({ versions }: { versions: VersionChoice[]
       <Field id="new-title" label="Exercise title" error={formState.errors.title?.message}>
         <input id="new-title" className="field-input" placeholder="e.g. Serrin Strait, staff course run 3" {...register('title')} />
       </Field>
-      <button type="submit" className="btn-accent" disabled={formState.isSubmitting}>
+      <SubmitButton className="btn-accent" disabled={formState.isSubmitting}>
         {formState.isSubmitting ? 'Creating…' : 'Create the exercise'}
-      </button>
+      </SubmitButton>
     </form>
   );
 }

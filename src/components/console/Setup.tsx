@@ -10,6 +10,7 @@ import type { Snapshot } from '../../lib/exercise/view';
 import { Field, FormMessage } from '../ui/Field';
 import { useIntent, type Send } from '../desk/live';
 import { Empty, Panel, TeamName, teamName } from '../desk/parts';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const SEAT_WORDS = { facilitator: 'Facilitator', player: 'Player', observer: 'Observer', sponsor: 'Sponsor' } as const;
 
@@ -135,9 +136,9 @@ export function Roster({ exerciseId, view }: { exerciseId: string; view: Snapsho
             <input type="checkbox" {...register('isLead')} /> Team lead (submits the team’s move unless any member may)
           </label>
         )}
-        <button type="submit" className="btn-primary" disabled={formState.isSubmitting}>
+        <SubmitButton className="btn-primary" disabled={formState.isSubmitting}>
           {formState.isSubmitting ? 'Adding…' : 'Add to the roster'}
-        </button>
+        </SubmitButton>
       </form>
     </Panel>
   );
@@ -227,9 +228,9 @@ export function SettingsForm({ view, send }: { view: Snapshot; send: Send }) {
         </Field>
         {save.error && <FormMessage tone="error">{save.error}</FormMessage>}
         {save.done && <FormMessage tone="ok">{save.done}</FormMessage>}
-        <button type="submit" className="btn-primary" disabled={save.busy}>
+        <SubmitButton className="btn-primary" disabled={save.busy}>
           Save the settings
-        </button>
+        </SubmitButton>
       </form>
     </Panel>
   );

@@ -4,6 +4,7 @@ import { FormMessage } from '../ui/Field';
 import { useIntent, useLive, useServerNow, type Initial, type Send } from '../desk/live';
 import { AfterPlayLinks, Analysis, Empty, Injects, Kbd, MissedNotice, MoveList, Panel, Situation, StatusStrip, TeamName } from '../desk/parts';
 import type { MoveView, Snapshot } from '../../lib/exercise/view';
+import { SubmitButton } from '../ui/SubmitButton';
 
 type Props = { exerciseId: string; initial: Initial };
 type About = { turn: number | null; moveId: string | null };
@@ -160,9 +161,9 @@ function Composer({ view, send, about, setAbout, textarea }: { view: Snapshot; s
       </fieldset>
       <textarea ref={textarea} aria-label="Note" className="field-input" rows={4} maxLength={4000} value={text} onChange={(e) => setText(e.target.value)} placeholder="What did you see? Signals, misreadings, turning points…" />
       <div className="flex items-center gap-3">
-        <button type="submit" className="btn-primary" disabled={save.busy || !text.trim()} data-testid="save-note">
+        <SubmitButton className="btn-primary" disabled={save.busy || !text.trim()} data-testid="save-note">
           Save the note
-        </button>
+        </SubmitButton>
         <span className="text-xs text-ink-500">Facilitators and observers see notes; players never do.</span>
       </div>
       {save.error && <FormMessage tone="error">{save.error}</FormMessage>}

@@ -8,6 +8,7 @@ import { api, describeError } from '../../lib/client/api';
 import type { ReportPermissions } from '../../lib/report/permissions';
 import { dateTime } from '../review/format';
 import { Field, FormMessage } from '../ui/Field';
+import { SubmitButton } from '../ui/SubmitButton';
 
 type Comment = { id: string; authorName: string; quote: string | null; body: string; createdAt: string; resolvedAt: string | null };
 
@@ -85,9 +86,9 @@ export function CommentsPanel({ exerciseId, may }: { exerciseId: string; may: Re
           <Field id="comment-body" label="Your comment" hint="Select a passage in the draft first to quote it." error={formState.errors.body?.message}>
             <textarea id="comment-body" rows={3} className="field-input" {...register('body')} />
           </Field>
-          <button type="submit" className="btn-quiet" disabled={add.isPending}>
+          <SubmitButton className="btn-quiet" disabled={add.isPending}>
             Add comment
-          </button>
+          </SubmitButton>
         </form>
       )}
     </section>

@@ -7,6 +7,7 @@ import { api, ApiError, describeError } from '../../lib/client/api';
 import { dateTime } from '../review/format';
 import { Field, FormMessage } from '../ui/Field';
 import type { ReportState } from './ReportWorkspace';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.object({
   version: z.number().int().min(1),
@@ -70,9 +71,9 @@ export function SendPanel({ exerciseId, report, onSent }: { exerciseId: string; 
           <Field id="send-note" label="Covering note" error={formState.errors.note?.message}>
             <textarea id="send-note" rows={4} className="field-input" {...register('note')} />
           </Field>
-          <button type="submit" className="btn-primary w-full" disabled={send.isPending}>
+          <SubmitButton className="btn-primary w-full" disabled={send.isPending}>
             {send.isPending ? 'Sending…' : 'Send with the PDF attached'}
-          </button>
+          </SubmitButton>
         </form>
       )}
       {report.dispatches.length > 0 && (

@@ -1,5 +1,6 @@
 import { useRef, useState } from 'react';
 import { api, ApiError, describeError, type FieldError } from '../../lib/client/api';
+import { useHydrated } from '../ui/SubmitButton';
 import { FaultList } from './FaultList';
 
 type Created = { scenarioId: string; versionId: string };
@@ -10,6 +11,8 @@ export function ImportButton({ onImported }: { onImported: (created: Created) =>
   const [faults, setFaults] = useState<FieldError[]>([]);
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  // A file picked before the island is live would be dropped without a word.
+  const live = useHydrated();
 
   const importFile = async (file: File) => {
     setFaults([]);
@@ -45,6 +48,7 @@ export function ImportButton({ onImported }: { onImported: (created: Created) =>
           accept="application/json,.json"
           className="sr-only"
           data-testid="import-file"
+          disabled={!live || busy}
           onChange={(e) => {
             const file = e.target.files?.[0];
             if (file) void importFile(file);

@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { api, ApiError, describeError } from '../../lib/client/api';
 import { Field, FormMessage } from '../ui/Field';
 import { withQueryClient } from '../ui/QueryRoot';
+import { SubmitButton } from '../ui/SubmitButton';
 
 const schema = z.object({ title: z.string().trim().min(1, 'Give the scenario a title').max(200, 'At most 200 characters') });
 type Values = z.infer<typeof schema>;
@@ -25,9 +26,9 @@ function NewScenarioForm() {
         <input id="scenario-title" className="field-input" autoFocus {...register('title')} />
       </Field>
       <div className="flex gap-2">
-        <button type="submit" className="btn-accent" disabled={create.isPending}>
+        <SubmitButton className="btn-accent" disabled={create.isPending}>
           {create.isPending ? 'Creating…' : 'Create scenario'}
-        </button>
+        </SubmitButton>
         <a href="/studio" className="btn-quiet">
           Back to the library
         </a>

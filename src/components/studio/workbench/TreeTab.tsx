@@ -12,6 +12,7 @@ import { useWorkbench } from './context';
 import { AnalysisCaution, NumField, TextField } from './fields';
 import { formatNumber, formatPercent } from './format';
 import { EquilibriumStatus } from './EquilibriumStatus';
+import { SubmitButton } from '../../ui/SubmitButton';
 
 export function TreeTab() {
   const { document, game, payoffs, equilibrium, selectedNodeId, selectNode, scenarioId } = useWorkbench();
@@ -240,9 +241,9 @@ function NodeEditor({ node }: { node: GameNode }) {
           }}
         >
           <TextField className="flex-1" label={node.kind === 'chance' ? 'New chance outcome' : 'New action'} value={newAction} onChange={setNewAction} />
-          <button type="submit" className="btn-quiet py-1.5">
+          <SubmitButton className="btn-quiet py-1.5">
             Add
-          </button>
+          </SubmitButton>
         </form>
       )}
       <div className="flex flex-wrap gap-2">
