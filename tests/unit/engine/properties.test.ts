@@ -15,6 +15,7 @@ import {
   solveFlat,
   solveSubgamePerfect,
   supportEnumeration,
+  type BimatrixGame,
   type Game,
   type GameNode,
 } from '../../../src/lib/engine';
@@ -227,6 +228,27 @@ describe('support enumeration on random bimatrix stages', () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it('keeps a mixed equilibrium a hair from a pure strategy, which the float pass rounds onto it (worked by hand)', () => {
+    const exactOf = (stage: BimatrixGame) => supportEnumeration(stage).equilibria.map((e) => [e.rowExact, e.colExact]);
+    // Row indifference: (1 - y)(-3 + 2e-10) = y - 3(1 - y), so y = 2e-10 / (1 + 2e-10) = 1 / 5,000,000,001,
+    // which is 0 at the 9 decimals the float pass compares; column indifference: 3x = 2(1 - x).
+    const cycle = { rowLabels: ['a', 'b'], colLabels: ['c', 'd'], rowPayoff: [[0, '-2.9999999998'], [1, -3]], colPayoff: [[3, 0], [-2, 0]] };
+    expect(exactOf(cycle)).toEqual([[['2/5', '3/5'], ['1/5000000001', '5000000000/5000000001']]]);
+    // Column indifference at q = 1/2: with x = (a, 0, 1 - a), 1 + a = (1 + 1e-12)(1 - a), so
+    // a = 1e-12 / (2 + 1e-12) = 1 / 2,000,000,000,001, under the 1e-12 at which floats are taken for 0;
+    // with x = (0, b, 1 - b) the same b. The two extreme equilibria span the equilibrium set.
+    const shelf = {
+      rowLabels: ['a', 'b', 'c'],
+      colLabels: ['d', 'e'],
+      rowPayoff: [[0, 0], [0, 0], [1, -1]],
+      colPayoff: [[2, 0], [1, -1], [1, '1.000000000001']],
+    };
+    expect(exactOf(shelf)).toEqual([
+      [['1/2000000000001', '0', '2000000000000/2000000000001'], ['1/2', '1/2']],
+      [['0', '1/2000000000001', '2000000000000/2000000000001'], ['1/2', '1/2']],
+    ]);
   });
 
   it('finds the one mixed equilibrium of a stage whose column mix is 13 in 14,166,500,013 (worked by hand)', () => {

@@ -79,7 +79,7 @@ interface Vertex<T> {
  * Extreme equilibria of the bimatrix game (A, B) in the field's arithmetic.
  * A[i][j] and B[i][j] are the payoffs of the row and column team. Vertices are found
  * and paired in floats; in exact mode only the vertices of float pairs are recomputed
- * exactly, and each pair is confirmed exactly.
+ * exactly (every (S, K) behind them), and each pair is confirmed exactly.
  */
 export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { equilibria: StageEquilibrium<T>[]; degenerate: boolean; continuum: boolean } {
   const m = A.length;
@@ -91,29 +91,37 @@ export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { eq
   const xs = floatCandidates(Btf, m, n).map((c) => ({ ...c, ...describe(floatField, Btf, c) }));
   const ys = floatCandidates(Af, n, m).map((c) => ({ ...c, ...describe(floatField, Af, c) }));
   const degenerate = [...xs, ...ys].some((v) => v.bestResponses.length > v.support.length);
-  const exactX = new Map<number, Vertex<T> | null>();
-  const exactY = new Map<number, Vertex<T> | null>();
-  const confirm = (cache: Map<number, Vertex<T> | null>, P: T[][], c: Candidate, own: number, index: number) => {
-    if (!cache.has(index)) {
-      let found: Vertex<T> | null = null;
+  // In exact mode every (S, K) of a float candidate is solved exactly and each distinct
+  // vertex that holds is kept: next to a tie, one float strategy can stand for a pure
+  // vertex and a mixed one a hair away (a probability under the float snap), and only
+  // the mixed one may pair into an equilibrium.
+  const exactX = new Map<number, Vertex<T>[]>();
+  const exactY = new Map<number, Vertex<T>[]>();
+  const confirm = (cache: Map<number, Vertex<T>[]>, P: T[][], c: Candidate, own: number, index: number) => {
+    let found = cache.get(index);
+    if (!found) {
+      found = [];
       for (const { S, K } of [c, ...c.alternatives]) {
         const solved = solveFor(field, P, S, K, own);
-        if (solved && isBestResponseVertex(field, P, solved)) {
-          found = describe(field, P, solved);
-          break;
-        }
+        if (!solved || !isBestResponseVertex(field, P, solved)) continue;
+        if (found.some((v) => sameStrategy(field, v.strategy, solved.strategy))) continue;
+        found.push(describe(field, P, solved));
       }
       cache.set(index, found);
     }
-    return cache.get(index)!;
+    return found;
   };
   const equilibria: StageEquilibrium<T>[] = [];
+  const add = (x: Vertex<T>, y: Vertex<T>) => {
+    if (!compatible(x, y)) return;
+    if (field.exact && equilibria.some((e) => sameStrategy(field, e.row, x.strategy) && sameStrategy(field, e.col, y.strategy))) return;
+    equilibria.push({ row: x.strategy, col: y.strategy, values: [y.value, x.value] });
+  };
   xs.forEach((xf, xi) => {
     ys.forEach((yf, yi) => {
       if (!compatible(xf, yf)) return;
-      const x = field.exact ? confirm(exactX, Bt, xf, m, xi) : (xf as unknown as Vertex<T>);
-      const y = field.exact ? confirm(exactY, A, yf, n, yi) : (yf as unknown as Vertex<T>);
-      if (x && y && compatible(x, y)) equilibria.push({ row: x.strategy, col: y.strategy, values: [y.value, x.value] });
+      if (!field.exact) return add(xf as unknown as Vertex<T>, yf as unknown as Vertex<T>);
+      for (const x of confirm(exactX, Bt, xf, m, xi)) for (const y of confirm(exactY, A, yf, n, yi)) add(x, y);
     });
   });
   return { equilibria, degenerate, continuum: hasContinuum(field, equilibria) };
@@ -128,8 +136,12 @@ export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { eq
  * paired with two different extreme strategies of the other.
  */
 function hasContinuum<T>(field: Field<T>, equilibria: StageEquilibrium<T>[]): boolean {
-  const same = (a: T[], b: T[]) => a.every((v, k) => field.cmp(v, b[k]!) === 0);
+  const same = (a: T[], b: T[]) => sameStrategy(field, a, b);
   return equilibria.some((e, i) => equilibria.some((f, j) => j > i && same(e.row, f.row) !== same(e.col, f.col)));
+}
+
+function sameStrategy<T>(field: Field<T>, a: T[], b: T[]): boolean {
+  return a.every((v, k) => field.cmp(v, b[k]!) === 0);
 }
 
 function compatible(x: { support: number[]; bestResponses: number[] }, y: { support: number[]; bestResponses: number[] }): boolean {
@@ -142,7 +154,8 @@ interface Candidate {
   strategy: number[];
   value: number;
   /**
-   * Other (S, K) whose float solution is the same strategy to 9 decimals. Next to a tie
+   * Other (S, K) whose float solution is the same strategy to 9 decimals, on the same
+   * support. Next to a tie
    * the float tolerance lets a K that misses the true best response through; the exact
    * pass tries these in turn when the first does not hold exactly.
    */
@@ -163,7 +176,10 @@ function floatCandidates(P: number[][], own: number, other: number): Candidate[]
         if (!solveSquare(P, S, K, m, z) || !isFloatVertex(P, S, z, k)) continue;
         const strategy = new Array<number>(own).fill(0);
         S.forEach((i, a) => (strategy[i] = Math.abs(z[a]!) < 1e-12 ? 0 : z[a]!));
-        const key = strategy.map((v) => v.toFixed(9)).join(',');
+        // The support is part of the key: a probability of 1e-10 rounds to 0 at 9 decimals,
+        // and merging such a mixed vertex into the pure one beside it would lose the only
+        // equilibrium of a near-degenerate stage when the exact pass confirms the pure one.
+        const key = strategy.map((v) => (v > 0 ? v.toFixed(9) : '0')).join(',');
         const known = seen.get(key);
         if (known) {
           known.alternatives.push({ S, K });
