@@ -10,7 +10,7 @@ export default defineConfig({
       {
         resolve: { alias },
         // property tests run hundreds of cases: a generous bound, speed is measured in the benches
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 60_000 },
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 60_000, setupFiles: ['tests/support/fast-check.ts'] },
       },
       {
         resolve: { alias },
@@ -18,6 +18,7 @@ export default defineConfig({
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
           globalSetup: ['tests/support/build.ts'],
+          setupFiles: ['tests/support/fast-check.ts'],
           testTimeout: 60_000,
           hookTimeout: 120_000,
         },
