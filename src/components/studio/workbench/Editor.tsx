@@ -83,8 +83,12 @@ export function Editor({ scenarioId, detail, view, openVersion, refreshDetail }:
   const spe = useJob<SubgamePerfectResult>(scenarioId);
   const [equilibriumIndex, setEquilibriumIndex] = useState(0);
   const analysed = useRef<Scenario | null>(null);
+  // The document the current job was started for, as state so that the panel can mark a
+  // result left over from before the latest change until the rerun replaces it.
+  const [analysedFor, setAnalysedFor] = useState<Scenario | null>(null);
   const rerunEquilibria = useCallback(() => {
     analysed.current = checked;
+    setAnalysedFor(checked);
     void spe.start(checked, { analysis: 'equilibria', maxListed: 8 });
   }, [checked, spe.start]);
   useEffect(() => {
@@ -93,6 +97,7 @@ export function Editor({ scenarioId, detail, view, openVersion, refreshDetail }:
     return () => clearTimeout(timer);
   }, [checked, faults, rerunEquilibria]);
   const result = spe.state.status === 'done' ? spe.state.result : null;
+  const equilibriumStale = result !== null && faults.length === 0 && analysedFor !== document;
   const equilibrium = result?.equilibria[Math.min(equilibriumIndex, result.equilibria.length - 1)] ?? null;
 
   const save = useCallback(async () => {
@@ -174,6 +179,7 @@ export function Editor({ scenarioId, detail, view, openVersion, refreshDetail }:
     faults,
     payoffs,
     equilibria: spe.state,
+    equilibriumStale,
     equilibrium,
     equilibriumIndex,
     setEquilibriumIndex,

@@ -6,12 +6,12 @@ import { equilibriumCountWords, hasSeveralPlays, type SubgamePerfectResult } fro
 import { ProgressBar } from '../analysis/ProgressBar';
 
 export function EquilibriumStatus() {
-  const { document, equilibria, equilibrium, equilibriumIndex, setEquilibriumIndex, rerunEquilibria, cancelEquilibria, faults } = useWorkbench();
+  const { document, equilibria, equilibriumStale, equilibrium, equilibriumIndex, setEquilibriumIndex, rerunEquilibria, cancelEquilibria, faults } = useWorkbench();
   if (faults.length > 0 && equilibria.status !== 'done') {
     return <div className="panel p-4 text-sm text-ink-700">Fix the faults listed below the tabs, and the equilibrium appears here.</div>;
   }
   return (
-    <section className="panel space-y-2 p-4" aria-labelledby="equilibrium-heading" data-testid="equilibrium-panel">
+    <section className="panel space-y-2 p-4" aria-labelledby="equilibrium-heading" data-testid="equilibrium-panel" data-state={panelState(equilibria.status, equilibriumStale, faults.length > 0)}>
       <h2 id="equilibrium-heading" className="text-base">
         Equilibrium path
       </h2>
@@ -32,6 +32,11 @@ export function EquilibriumStatus() {
       {equilibria.status === 'done' && equilibrium && (
         <>
           {faults.length > 0 && <p className="text-xs text-bronze-800">Shown for the last version without faults.</p>}
+          {equilibriumStale && (
+            <p role="status" className="text-xs text-bronze-800">
+              Recomputing for your latest change…
+            </p>
+          )}
           <p className="text-xs text-ink-600" data-testid="equilibrium-count">
             {equilibriumCountWords(equilibria.result)}.{continuaWords(equilibria.result)} · {equilibria.result.method} · {equilibria.seconds.toFixed(2)} s
           </p>
@@ -47,7 +52,7 @@ export function EquilibriumStatus() {
               </select>
             </label>
           )}
-          <ol className="list-decimal space-y-0.5 pl-5 text-sm" data-testid="equilibrium-path">
+          <ol className={`list-decimal space-y-0.5 pl-5 text-sm ${equilibriumStale ? 'opacity-60' : ''}`} data-testid="equilibrium-path">
             {equilibrium.path.map((label, i) => (
               <li key={`${i}-${label}`}>{label}</li>
             ))}
@@ -60,6 +65,12 @@ export function EquilibriumStatus() {
       )}
     </section>
   );
+}
+
+/** For tests and styles: 'current' only when the path shown belongs to the document as it stands. */
+function panelState(status: string, stale: boolean, faults: boolean): string {
+  if (status !== 'done') return status;
+  return faults ? 'faults' : stale ? 'stale' : 'current';
 }
 
 function continuaWords(result: SubgamePerfectResult): string {

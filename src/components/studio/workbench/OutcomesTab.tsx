@@ -154,7 +154,7 @@ export function OutcomesTab() {
               </thead>
               <tbody>
                 {table.getRowModel().rows.map((row) => (
-                  <tr key={row.id} className={row.original.onPath ? 'bg-bronze-100/50' : ''}>
+                  <tr key={row.id} data-node={row.original.id} className={row.original.onPath ? 'bg-bronze-100/50' : ''}>
                     {row.getVisibleCells().map((cell) => (
                       <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>
                     ))}

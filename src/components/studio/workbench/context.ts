@@ -20,6 +20,8 @@ export type WorkbenchState = {
   /** Formatted payoffs per terminal id, in team order. */
   payoffs: Map<string, string[]>;
   equilibria: JobState<SubgamePerfectResult>;
+  /** True while the result on hand was computed for an earlier state of the document (a change waits for its rerun). */
+  equilibriumStale: boolean;
   /** The equilibrium shown (of those listed), or null until one is known. */
   equilibrium: Equilibrium | null;
   equilibriumIndex: number;
