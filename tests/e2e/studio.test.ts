@@ -175,6 +175,11 @@ describe('e2e: authoring in the Studio', () => {
     await page.getByTestId('monte-carlo-chart').waitFor({ timeout: 60_000 });
     expect(await page.locator('[data-caution]').count()).toBeGreaterThanOrEqual(4);
     await screenshot(page, 'studio-demo-analysis');
+
+    // An address naming a tab opens it, as a link from elsewhere would.
+    await page.evaluate(() => (window.location.hash = '#outcomes'));
+    await expect.poll(() => page.getByRole('tab', { name: 'Outcomes' }).getAttribute('aria-selected')).toBe('true');
+    await page.getByTestId('outcomes-table').waitFor();
     await page.close();
   });
 });

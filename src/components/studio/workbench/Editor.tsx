@@ -152,6 +152,16 @@ export function Editor({ scenarioId, detail, view, openVersion, refreshDetail }:
     return () => window.removeEventListener('beforeunload', warn);
   }, [history.dirty]);
 
+  // A link or a typed address to another tab (#outcomes, #analysis...) opens it.
+  useEffect(() => {
+    const onHash = () => {
+      const key = window.location.hash.slice(1);
+      if (TABS.some((t) => t.key === key)) setTab(key as TabKey);
+    };
+    window.addEventListener('hashchange', onHash);
+    return () => window.removeEventListener('hashchange', onHash);
+  }, []);
+
   const show = useCallback((next: TabKey) => {
     setTab(next);
     window.history.replaceState(null, '', `#${next}`);
