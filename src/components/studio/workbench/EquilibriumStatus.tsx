@@ -57,7 +57,7 @@ export function EquilibriumStatus() {
               <li key={`${i}-${label}`}>{label}</li>
             ))}
           </ol>
-          <p className="text-sm" data-testid="equilibrium-payoffs">
+          <p className={`text-sm ${equilibriumStale ? 'opacity-60' : ''}`} data-testid="equilibrium-payoffs">
             Payoffs: {document.teams.map((t, i) => `${t.name} ${formatNumber(equilibrium.payoffs[i] ?? NaN)}`).join(' · ')}
           </p>
           <AnalysisCaution />
