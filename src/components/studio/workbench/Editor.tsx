@@ -82,20 +82,18 @@ export function Editor({ scenarioId, detail, view, openVersion, refreshDetail }:
 
   const spe = useJob<SubgamePerfectResult>(scenarioId);
   const [equilibriumIndex, setEquilibriumIndex] = useState(0);
-  const analysed = useRef<Scenario | null>(null);
-  // The document the current job was started for, as state so that the panel can mark a
-  // result left over from before the latest change until the rerun replaces it.
+  // The document the current job was started for: a change reruns the job after a pause,
+  // and until then the panel marks the result on hand as left over from before it.
   const [analysedFor, setAnalysedFor] = useState<Scenario | null>(null);
   const rerunEquilibria = useCallback(() => {
-    analysed.current = checked;
     setAnalysedFor(checked);
     void spe.start(checked, { analysis: 'equilibria', maxListed: 8 });
   }, [checked, spe.start]);
   useEffect(() => {
-    if (faults.length > 0 || analysed.current === checked) return;
+    if (faults.length > 0 || analysedFor === checked) return;
     const timer = setTimeout(rerunEquilibria, 350);
     return () => clearTimeout(timer);
-  }, [checked, faults, rerunEquilibria]);
+  }, [checked, faults, analysedFor, rerunEquilibria]);
   const result = spe.state.status === 'done' ? spe.state.result : null;
   const equilibriumStale = result !== null && faults.length === 0 && analysedFor !== document;
   const equilibrium = result?.equilibria[Math.min(equilibriumIndex, result.equilibria.length - 1)] ?? null;

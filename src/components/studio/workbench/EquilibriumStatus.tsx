@@ -4,6 +4,7 @@ import { AnalysisCaution } from './fields';
 import { formatNumber } from './format';
 import { equilibriumCountWords, hasSeveralPlays, type SubgamePerfectResult } from '../../../lib/engine';
 import { ProgressBar } from '../analysis/ProgressBar';
+import type { JobState } from '../analysis/useJob';
 
 export function EquilibriumStatus() {
   const { document, equilibria, equilibriumStale, equilibrium, equilibriumIndex, setEquilibriumIndex, rerunEquilibria, cancelEquilibria, faults } = useWorkbench();
@@ -68,7 +69,7 @@ export function EquilibriumStatus() {
 }
 
 /** For tests and styles: 'current' only when the path shown belongs to the document as it stands. */
-function panelState(status: string, stale: boolean, faults: boolean): string {
+function panelState(status: JobState<SubgamePerfectResult>['status'], stale: boolean, faults: boolean): string {
   if (status !== 'done') return status;
   return faults ? 'faults' : stale ? 'stale' : 'current';
 }

@@ -136,8 +136,7 @@ export function bimatrixEquilibria<T>(field: Field<T>, A: T[][], B: T[][]): { eq
  * paired with two different extreme strategies of the other.
  */
 function hasContinuum<T>(field: Field<T>, equilibria: StageEquilibrium<T>[]): boolean {
-  const same = (a: T[], b: T[]) => sameStrategy(field, a, b);
-  return equilibria.some((e, i) => equilibria.some((f, j) => j > i && same(e.row, f.row) !== same(e.col, f.col)));
+  return equilibria.some((e, i) => equilibria.some((f, j) => j > i && sameStrategy(field, e.row, f.row) !== sameStrategy(field, e.col, f.col)));
 }
 
 function sameStrategy<T>(field: Field<T>, a: T[], b: T[]): boolean {
