@@ -7,7 +7,8 @@
  * Every open socket's messages pass server/socket-guard.ts (the route's
  * message limit; nothing once the server closes it), and every open socket
  * stays known here, so an access change (src/lib/access-changes.ts)
- * closes it at once: a deactivated account's sockets with 4401, a socket whose
+ * closes it at once: a deactivated account's sockets, and those opened with a
+ * session that has signed out, with 4401, a socket whose
  * route no longer admits the person with 4403 and the access rule's reason.
  */
 import type { IncomingMessage, Server } from 'node:http';
@@ -15,13 +16,13 @@ import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import type { Decision } from '../src/lib/access';
 import { onAccessChange, type AccessChange } from '../src/lib/access-changes';
-import { userFromHeaders, type SessionUser } from '../src/lib/auth';
+import { sessionFromHeaders, type SessionUser } from '../src/lib/auth';
 import { loadConfig } from '../src/lib/config';
 import { exerciseRoute } from './live/route';
 import { reportRoute } from './report/route';
 import { closeSocket, guardMessages, type MessageLimit } from './socket-guard';
 
-export type SocketContext = { user: SessionUser; params: Record<string, string>; request: IncomingMessage };
+export type SocketContext = { user: SessionUser; sessionId: string; params: Record<string, string>; request: IncomingMessage };
 
 export type SocketRoute = {
   /** Path pattern with named groups, e.g. /^\/ws\/exercise\/(?<id>[\w-]+)$/ */
@@ -87,6 +88,8 @@ function revisit(open: Set<OpenSocket>, change: AccessChange): void {
   for (const entry of open) {
     if (change.kind === 'account-closed') {
       if (entry.ctx.user.id === change.userId) closeSocket(entry.socket, CLOSE_SIGNED_OUT, change.reason);
+    } else if (change.kind === 'session-ended') {
+      if (entry.ctx.sessionId === change.sessionId) closeSocket(entry.socket, CLOSE_SIGNED_OUT, change.reason);
     } else if (entry.route.exerciseOf(entry.ctx.params) === change.exerciseId && (change.userId === null || change.userId === entry.ctx.user.id)) {
       void recheck(entry);
     }
@@ -108,8 +111,9 @@ type Admission =
   | { refusal: { status: number; reason: string } };
 
 async function admit(request: IncomingMessage, path: string): Promise<Admission> {
-  const user = await userFromHeaders(headersOf(request));
-  if (!user) return { refusal: { status: 401, reason: 'Sign in first' } };
+  const signedIn = await sessionFromHeaders(headersOf(request));
+  if (!signedIn) return { refusal: { status: 401, reason: 'Sign in first' } };
+  const { user, sessionId } = signedIn;
   if (!trustedOrigin(request.headers.origin)) return { refusal: { status: 403, reason: 'Untrusted origin' } };
   for (const route of ROUTES) {
     const match = route.pattern.exec(path);
@@ -117,7 +121,7 @@ async function admit(request: IncomingMessage, path: string): Promise<Admission>
     const params = { ...match.groups };
     const decision = await route.admit(user, params);
     if (!decision.ok) return { refusal: { status: decision.status, reason: decision.reason } };
-    return { route, ctx: { user, params, request } };
+    return { route, ctx: { user, sessionId, params, request } };
   }
   return { refusal: { status: 404, reason: 'No such live channel' } };
 }

@@ -1,5 +1,6 @@
 /**
  * Access changes that open sockets must act on at once: a deactivated account,
+ * a session signed out,
  * a seat taken away or changed, an exercise's settings. The change is made in
  * one copy of our modules (an endpoint in the Astro bundle, a hub intent in
  * server/) and the sockets are kept by the other (server/sockets.ts), so the
@@ -10,6 +11,8 @@ import { shared } from './runtime';
 export type AccessChange =
   /** The person can no longer sign in: every socket of theirs closes. */
   | { kind: 'account-closed'; userId: string; reason: string }
+  /** One sign-in ended (signed out, expired): the sockets opened with it close. */
+  | { kind: 'session-ended'; sessionId: string; reason: string }
   /** A seat or the settings of an exercise changed: its sockets (of this person; of everyone when null) ask the access rules again. */
   | { kind: 'exercise-access'; exerciseId: string; userId: string | null };
 

@@ -2,6 +2,7 @@ import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { eq } from 'drizzle-orm';
 import { db, schema } from '../db/client';
+import { announceAccessChange } from './access-changes';
 import { loadConfig } from './config';
 import { passwordResetMail } from './mail-templates';
 import { sendMail } from './mail';
@@ -48,6 +49,10 @@ function createAuth() {
             return { data: session };
           },
         },
+        delete: {
+          // Signing out (or a session ending any other way) closes the sockets opened with it.
+          after: async (session) => announceAccessChange({ kind: 'session-ended', sessionId: session.id, reason: 'This sign-in has ended (signed out). Sign in again to go on.' }),
+        },
       },
     },
     rateLimit: {
@@ -81,11 +86,16 @@ export type SessionUser = {
   role: schema.PlatformRole;
 };
 
-/** The signed-in, active user behind these request headers, or null. */
-export async function userFromHeaders(headers: Headers): Promise<SessionUser | null> {
+/** The signed-in, active user behind these request headers and the session they came with, or null. */
+export async function sessionFromHeaders(headers: Headers): Promise<{ user: SessionUser; sessionId: string } | null> {
   const found = await auth().api.getSession({ headers });
   if (!found) return null;
   const row = db().select().from(schema.user).where(eq(schema.user.id, found.user.id)).get();
   if (!row || row.deactivatedAt) return null;
-  return { id: row.id, name: row.name, email: row.email, role: row.role };
+  return { user: { id: row.id, name: row.name, email: row.email, role: row.role }, sessionId: found.session.id };
+}
+
+/** The signed-in, active user behind these request headers, or null. */
+export async function userFromHeaders(headers: Headers): Promise<SessionUser | null> {
+  return (await sessionFromHeaders(headers))?.user ?? null;
 }

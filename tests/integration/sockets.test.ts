@@ -2,7 +2,7 @@
  * The shared socket layer (server/sockets.ts, server/socket-guard.ts) over real sockets on
  * both routes: the per-connection message limit (a flood is refused and closed with 1008,
  * normal use passes, everyone else is still served) and access changes that close open
- * sockets at once (a deactivated account, a seat taken away or changed, settings).
+ * sockets at once (a deactivated account, a sign-out, a seat taken away or changed, settings).
  */
 import WebSocket from 'ws';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -237,6 +237,29 @@ describe('access changes close open sockets at once', () => {
       live.stop();
       report.close();
       neighbour.close();
+    }
+  });
+
+  it('closes the sockets opened with a sign-in that signs out, and leaves that person’s other sign-ins alone', async () => {
+    const leaving = await signIn(app, DEMO.blue); // a second sign-in of the same person, say on a tablet
+    const live = connectLive(app, leaving, briefing);
+    await joined(live);
+    const report = await openReport(app, leaving, finished);
+    const reportClosed = closeOf(report);
+    const staying = await openReport(app, people.blue, finished);
+    try {
+      expect((await leaving.json('/api/auth/sign-out', { method: 'POST', json: {} })).status).toBe(200);
+      const reason = 'This sign-in has ended (signed out). Sign in again to go on.';
+      expect(await reportClosed).toEqual({ code: 4401, reason });
+      await until(live, (s) => s.connection === 'refused', 'the Desk to show the refusal');
+      expect(live.state.refusal).toBe(reason);
+      await expect(leaving.socket(`/ws/exercise/${briefing}`)).rejects.toMatchObject({ status: 401 });
+      expect(staying.provider.wsconnected).toBe(true);
+      await stillServed(people.blue, briefing);
+    } finally {
+      live.stop();
+      report.close();
+      staying.close();
     }
   });
 
