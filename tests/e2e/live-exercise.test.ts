@@ -3,6 +3,7 @@
  * the Console, Tomas Reyl on Velmora's Desk, Darya Kovel on Ostrakh's. A sequential
  * turn by mouse, one by keyboard, the seeded chance draw, a sealed simultaneous turn with
  * an off-ladder proposal the facilitator adjudicates, the reveal, and play to an outcome.
+ * Then an observer saves a note with the line down, reloads, and the note is saved once.
  */
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -148,5 +149,31 @@ describe('e2e: a live exercise in three browsers', () => {
     await facilitator.getByRole('tab', { name: 'Audit log' }).click();
     expect(await facilitator.getByTestId('audit-log').textContent()).toContain('Revealed turn 4');
     await screenshot(facilitator, 'live-console-log');
+  });
+
+  it('keeps a note saved while the line is down over a page reload, and saves it once the line is back', async () => {
+    const observer = await openAs(DEMO.observer);
+    let online = false;
+    await observer.routeWebSocket(/\/ws\/exercise\//, (socket) => {
+      if (online) socket.connectToServer(); // else the page's socket opens onto nothing that answers
+    });
+    await observer.goto(`${app.url}/exercises`);
+    await observer.goto(`${app.url}${(await observer.getByRole('link', { name: /run 1/ }).getAttribute('href'))!}`);
+    await observer.locator('[data-connection="connecting"]').waitFor();
+    const text = 'Velmora’s lead hesitated before the second move (written offline)';
+    await observer.getByLabel(/^Note$/).fill(text);
+    await observer.getByTestId('save-note').click();
+    await expect.poll(() => observer.getByTestId('connection').textContent()).toContain('1 waiting to send');
+    await screenshot(observer, 'live-observer-waiting-to-send');
+
+    online = true;
+    await observer.reload();
+    await connected(observer);
+    await expect.poll(() => observer.getByTestId('note').filter({ hasText: text }).count(), { timeout: 15_000 }).toBe(1);
+    await expect.poll(() => observer.getByTestId('connection').textContent()).not.toContain('waiting to send');
+    expect(await observer.evaluate(() => Object.keys(sessionStorage).filter((k) => k.startsWith('rungwise:unsent:')))).toEqual([]);
+    await observer.reload();
+    await connected(observer);
+    expect(await observer.getByTestId('note').filter({ hasText: text }).count()).toBe(1);
   });
 });

@@ -1,6 +1,6 @@
-/** The React side of the exercise socket: one LiveClient per island, its state as React state. */
+/** The React side of the exercise socket: one LiveClient per island, its state as React state; unsent intents kept in the tab over a reload. */
 import { useEffect, useState } from 'react';
-import { LiveClient, type LiveState } from '../../lib/exercise/live-client';
+import { LiveClient, pendingInSession, type LiveState } from '../../lib/exercise/live-client';
 import type { Intent } from '../../lib/exercise/protocol';
 import type { Snapshot } from '../../lib/exercise/view';
 
@@ -8,7 +8,7 @@ export type Initial = { seq: number; view: Snapshot };
 export type Send = (intent: Intent) => Promise<Record<string, unknown>>;
 
 export function useLive(exerciseId: string, initial: Initial): { live: LiveState; view: Snapshot; send: Send } {
-  const [client] = useState(() => new LiveClient(exerciseId, initial));
+  const [client] = useState(() => new LiveClient(exerciseId, initial, undefined, pendingInSession(initial.view.me.userId, exerciseId)));
   const [live, setLive] = useState(client.state);
   useEffect(() => {
     const off = client.subscribe(setLive);

@@ -100,8 +100,13 @@ export function ConnectionBadge({ live }: { live: LiveState }) {
     <span className="inline-flex items-center gap-2 text-sm text-ink-700" role="status" aria-live="polite" data-testid="connection" data-connection={live.connection}>
       <span aria-hidden="true" className={`inline-block h-2.5 w-2.5 rounded-full ${dot}`} />
       {words}
-      {live.pending > 0 && <span className="text-xs text-bronze-700">({live.pending} waiting to send)</span>}
+      {live.pending > 0 && <span className="text-xs text-bronze-700">({live.pending} waiting to send, kept if the page reloads)</span>}
       {live.connection === 'refused' && live.refusal && <span className="text-xs text-brick-700">{live.refusal}</span>}
+      {live.refusedAfterReload.map((words, k) => (
+        <span key={k} className="text-xs text-brick-700" data-testid="refused-after-reload">
+          Not accepted after the page reloaded. {words}
+        </span>
+      ))}
     </span>
   );
 }

@@ -3,6 +3,9 @@
  * number it saw, applies snapshots, numbered updates and resumes, keeps every
  * intent it sent until the server acknowledges it (resending it with the same
  * idempotency key after a reconnect), and reconnects by itself with backoff.
+ * With a PendingStore the unacknowledged intents also outlive the page: a
+ * reload (or a crash of the tab) sends them again, with the same keys, so a
+ * move made while the line was down is neither lost nor counted twice.
  * Plain TypeScript; the React hook sits on top of it.
  */
 import { PROTOCOL_VERSION, type ErrorCode, type FieldReason, type Intent, type ServerMessage } from './protocol';
@@ -25,7 +28,15 @@ export type LiveState = {
   missed: EventSummary[];
   /** Reconnects so far (for the status line). */
   reconnects: number;
+  /** Intents kept from before a page reload that the server refused when they were sent again, in words. */
+  refusedAfterReload: string[];
 };
+
+/** An intent sent and not yet acknowledged, as kept between page loads. */
+export type SavedIntent = { key: string; intent: Intent };
+
+/** Where unacknowledged intents are kept between page loads (sessionStorage in the browser, see pendingInSession). */
+export type PendingStore = { load(): SavedIntent[]; save(intents: SavedIntent[]): void };
 
 export class IntentRefused extends Error {
   constructor(
@@ -49,7 +60,7 @@ const LOG_KEEP = 300;
 const closedForGood = (code: number) => (code >= 4400 && code < 4500) || code === 1008;
 
 export class LiveClient {
-  state: LiveState = { connection: 'connecting', refusal: null, snapshot: null, seq: 0, presence: { online: [] }, pending: 0, clockOffset: 0, missed: [], reconnects: 0 };
+  state: LiveState = { connection: 'connecting', refusal: null, snapshot: null, seq: 0, presence: { online: [] }, pending: 0, clockOffset: 0, missed: [], reconnects: 0, refusedAfterReload: [] };
   private socket: WebSocket | null = null;
   private waiting = new Map<string, Waiting>();
   private listeners = new Set<(state: LiveState) => void>();
@@ -59,13 +70,22 @@ export class LiveClient {
   private heartbeat: ReturnType<typeof setInterval> | null = null;
   private stopped = false;
 
-  /** `connect` opens the socket: the browser's WebSocket by default; tests and the benchmark hand in the ws package's. */
+  /**
+   * `connect` opens the socket: the browser's WebSocket by default; tests and the benchmark hand in the ws package's.
+   * `store` keeps unacknowledged intents between page loads; those it holds are sent again once the line is up.
+   */
   constructor(
     private readonly exerciseId: string,
     initial: { seq: number; view: Snapshot } | null = null,
     private readonly connect: (exerciseId: string) => WebSocket = (id) => new WebSocket(socketUrl(id)),
+    private readonly store: PendingStore | null = null,
   ) {
     if (initial) this.state = { ...this.state, snapshot: initial.view, seq: initial.seq };
+    for (const { key, intent } of store?.load() ?? []) {
+      const refused = (error: Error) => this.set({ refusedAfterReload: [...this.state.refusedAfterReload, `${INTENT_WORDS[intent.kind] ?? 'A change'}: ${error.message}`] });
+      this.waiting.set(key, { intent, resolve: () => undefined, reject: refused });
+    }
+    this.state.pending = this.waiting.size;
   }
 
   subscribe(listener: (state: LiveState) => void): () => void {
@@ -93,6 +113,7 @@ export class LiveClient {
     const key = crypto.randomUUID();
     return new Promise((resolve, reject) => {
       this.waiting.set(key, { intent, resolve, reject });
+      this.keep();
       this.set({ pending: this.waiting.size });
       if (this.ready()) this.transmit(key, intent);
     });
@@ -191,8 +212,13 @@ export class LiveClient {
     const waiting = this.waiting.get(key);
     if (!waiting) return;
     this.waiting.delete(key);
-    finish(waiting);
+    this.keep();
     this.set({ pending: this.waiting.size });
+    finish(waiting);
+  }
+
+  private keep(): void {
+    this.store?.save([...this.waiting].map(([key, { intent }]) => ({ key, intent })));
   }
 
   private later(run: () => void, ms: number): void {
@@ -214,6 +240,48 @@ function merge(snapshot: Snapshot, patch: Partial<Snapshot>, events: EventSummar
     next.log = [...next.log, ...fresh].slice(-LOG_KEEP);
   }
   return next;
+}
+
+/** What a kept intent was, for the message when it is refused after a reload. */
+const INTENT_WORDS: Record<Intent['kind'], string> = {
+  draft: 'A draft change',
+  submit: 'A move',
+  reveal: 'A reveal',
+  adjudicate: 'An adjudication',
+  chance: 'A chance draw',
+  clock: 'A clock change',
+  phase: 'A change of phase',
+  inject: 'An inject',
+  undo: 'An undo',
+  note: 'A note',
+  settings: 'A settings change',
+};
+
+/**
+ * Unacknowledged intents in the tab's sessionStorage, one entry per person and exercise: they
+ * survive a reload of the tab but not its closing, and never pass to someone else signing in there.
+ * A store that cannot be read or written (storage full or switched off) keeps nothing and says so once.
+ */
+export function pendingInSession(userId: string, exerciseId: string): PendingStore {
+  const name = `rungwise:unsent:${userId}:${exerciseId}`;
+  return {
+    load() {
+      try {
+        const kept = JSON.parse(sessionStorage.getItem(name) ?? '[]') as unknown;
+        return Array.isArray(kept) ? kept.filter((k): k is SavedIntent => typeof k?.key === 'string' && typeof k?.intent?.kind === 'string') : [];
+      } catch {
+        return [];
+      }
+    },
+    save(intents) {
+      try {
+        if (intents.length === 0) sessionStorage.removeItem(name);
+        else sessionStorage.setItem(name, JSON.stringify(intents));
+      } catch (error) {
+        console.warn('[live] unsent intents cannot be kept over a reload', error);
+      }
+    },
+  };
 }
 
 export function socketUrl(exerciseId: string): string {

@@ -11,7 +11,7 @@ import { IntentRefused, type LiveClient } from '../../../src/lib/exercise/live-c
 import type { Snapshot } from '../../../src/lib/exercise/view';
 import { anonymous, DEMO, signIn, startApp, type App, type Client } from '../../support/app';
 import { linkIn, waitForMail } from '../../support/mail';
-import { connectLive, joined, newExercise, optionWith, RawSocket, until, view } from './support';
+import { connectLive, joined, newExercise, optionWith, RawSocket, tabStore, until, view } from './support';
 
 let app: App;
 const clients: Partial<Record<keyof typeof DEMO, Client>> = {};
@@ -180,6 +180,55 @@ describe('live play over sockets', () => {
     expect(body.view.moves.filter((m) => m.teamId === 'velmora')).toHaveLength(1);
     blue.close();
     facilitator.close();
+  });
+});
+
+describe('a page reload with intents unsent', () => {
+  it('sends again what the line never carried or never acknowledged, each once, and says in words what was refused', async () => {
+    const id = await newExercise(clients.facilitator!, 'Reload run', { turnSeconds: null }, [...SEATS.slice(0, 3), SEATS[4]!]);
+    const F = open('facilitator', id);
+    await joined(F);
+    await F.send({ kind: 'phase', to: 'live' });
+    const hold = optionWith(await until(F, (s) => s.snapshot!.exercise.state === 'live', 'play to start').then((s) => s.snapshot!), 'velmora', 'hold');
+    const move = { kind: 'submit' as const, turn: 1, choice: { action: hold }, rationale: 'sent while off the network', confidence: 60 };
+
+    // Blue's laptop is off the network: the move waits in the tab, the page is reloaded, the line comes back.
+    const blueTab = tabStore();
+    const offline = connectLive(app, clients.blue!, id, blueTab, 1);
+    void offline.send(move).catch(() => undefined);
+    expect(blueTab.saved).toEqual([{ key: expect.any(String), intent: move }]);
+    offline.stop();
+    const blue = connectLive(app, clients.blue!, id, blueTab);
+    live.push(blue);
+    expect(blue.state.pending).toBe(1);
+    await until(blue, (s) => s.pending === 0 && s.snapshot?.moves.length === 1, 'the kept move to be committed');
+    expect(blueTab.saved).toEqual([]);
+
+    // An observer's note goes out and the page reloads before its ack: sent again with its key, counted once.
+    const observerTab = tabStore();
+    const before = connectLive(app, clients.observer!, id, observerTab);
+    await joined(before);
+    void before.send({ kind: 'note', turn: null, moveId: null, tags: [], text: 'written just before the reload' }).catch(() => undefined);
+    before.stop();
+    expect(observerTab.saved).toHaveLength(1);
+    await until(F, (s) => s.snapshot!.notes!.some((n) => n.text === 'written just before the reload'), 'the server to have the note already');
+    const observer = connectLive(app, clients.observer!, id, observerTab);
+    live.push(observer);
+    await until(observer, (s) => s.pending === 0 && s.connection === 'open', 'the kept note to be settled');
+    expect(observerTab.saved).toEqual([]);
+
+    // A kept move for a turn already played is refused when sent again, and the tab says so in words.
+    const staleTab = tabStore([{ key: 'move-for-a-past-turn', intent: { ...move, rationale: 'too late' } }]);
+    const late = connectLive(app, clients.blue!, id, staleTab);
+    live.push(late);
+    const refused = await until(late, (s) => s.refusedAfterReload.length === 1, 'the refusal of the kept move');
+    expect(refused.refusedAfterReload[0]).toMatch(/^A move: \S/);
+    expect(refused.pending).toBe(0);
+    expect(staleTab.saved).toEqual([]);
+
+    const { body } = await clients.facilitator!.json<{ view: Snapshot }>(`/api/exercises/${id}`);
+    expect(body.view.moves.map((m) => m.rationale)).toEqual(['sent while off the network']);
+    expect(body.view.notes!.filter((n) => n.text === 'written just before the reload')).toHaveLength(1);
   });
 });
 

@@ -3,19 +3,31 @@
  * ws package, raw sockets for hostile messages, and finding the seeded exercises.
  */
 import WebSocket from 'ws';
-import { LiveClient, type LiveState } from '../../../src/lib/exercise/live-client';
+import { LiveClient, type LiveState, type PendingStore, type SavedIntent } from '../../../src/lib/exercise/live-client';
 import type { Intent } from '../../../src/lib/exercise/protocol';
 import type { Snapshot } from '../../../src/lib/exercise/view';
 import type { App, Client } from '../../support/app';
 
-export function connectLive(app: App, client: Client, exerciseId: string): LiveClient {
-  const live = new LiveClient(exerciseId, null, (id) => {
-    const socket = new WebSocket(`ws://127.0.0.1:${app.port}/ws/exercise/${id}`, { headers: { cookie: client.cookie, origin: app.url } });
-    socket.on('error', () => undefined);
-    return socket as unknown as globalThis.WebSocket;
-  });
+/** The browser client, started; `store` stands for the tab's sessionStorage, `port` for where it reaches (a dead port: off the network). */
+export function connectLive(app: App, client: Client, exerciseId: string, store: PendingStore | null = null, port = app.port): LiveClient {
+  const live = new LiveClient(
+    exerciseId,
+    null,
+    (id) => {
+      const socket = new WebSocket(`ws://127.0.0.1:${port}/ws/exercise/${id}`, { headers: { cookie: client.cookie, origin: app.url } });
+      socket.on('error', () => undefined);
+      return socket as unknown as globalThis.WebSocket;
+    },
+    store,
+  );
   live.start();
   return live;
+}
+
+/** A tab's sessionStorage for unsent intents, in memory: what survives a reload. */
+export function tabStore(saved: SavedIntent[] = []): PendingStore & { saved: SavedIntent[] } {
+  const store = { saved, load: () => store.saved, save: (intents: SavedIntent[]) => void (store.saved = intents) };
+  return store;
 }
 
 export function until(live: LiveClient, test: (state: LiveState) => boolean, what: string, ms = 8000): Promise<LiveState> {
