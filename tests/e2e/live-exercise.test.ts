@@ -175,5 +175,11 @@ describe('e2e: a live exercise in three browsers', () => {
     await observer.reload();
     await connected(observer);
     expect(await observer.getByTestId('note').filter({ hasText: text }).count()).toBe(1);
+
+    // Signing out leaves nothing of this person's kept intents in the browser.
+    await observer.evaluate(() => sessionStorage.setItem('rungwise:unsent:someone:somewhere', '[]'));
+    await observer.getByRole('button', { name: 'Sign out' }).click();
+    await observer.waitForURL((url) => url.pathname.startsWith('/sign-in'));
+    expect(await observer.evaluate(() => Object.keys(sessionStorage))).toEqual([]);
   });
 });

@@ -177,6 +177,7 @@ describe('platform: signing out', () => {
     const out = await member.fetch('/sign-out', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: '' });
     expect(out.status).toBe(303);
     expect(out.headers.get('location')).toBe('/sign-in');
+    expect(out.headers.get('clear-site-data')).toBe('"storage"');
     expect((await member.json('/api/me')).status).toBe(401);
   });
 
