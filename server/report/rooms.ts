@@ -1,6 +1,7 @@
 /** The open report documents of this process, one room per exercise, closed when the last peer leaves. */
 import type { WebSocket } from 'ws';
 import type { SessionUser } from '../../src/lib/auth';
+import { markReportDocOpen } from '../../src/lib/report/open-docs';
 import { shared } from '../../src/lib/runtime';
 import { ReportRoom, type PeerMode } from './room';
 
@@ -9,6 +10,7 @@ const rooms = () => shared('report.rooms', () => new Map<string, ReportRoom>());
 function closeRoom(room: ReportRoom): void {
   if (rooms().get(room.exerciseId) !== room) return;
   rooms().delete(room.exerciseId);
+  markReportDocOpen(room.exerciseId, null);
   room.compact();
   room.destroy();
 }
@@ -23,6 +25,7 @@ export function joinReport(exerciseId: string, socket: WebSocket, user: SessionU
   if (!room) {
     room = new ReportRoom(exerciseId, closeRoom);
     rooms().set(exerciseId, room);
+    markReportDocOpen(exerciseId, room.doc);
   }
   room.join(socket, user, mode);
   return room;

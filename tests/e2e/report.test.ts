@@ -105,6 +105,27 @@ describe('e2e: writing the after-action report together', () => {
     expect(mail.attachments[0]).toMatchObject({ contentType: 'application/pdf' });
   });
 
+  it('writes the observer notes again after a late note, in front of both editors, keeping what they typed', async () => {
+    const facilitator = await personPage(DEMO.facilitator);
+    const observer = await personPage(DEMO.observer);
+    const note = 'A late note: the envoy was never briefed on the insurers.';
+    const added = await observer.request.post(`${app.url}/api/exercises/${exerciseId}/intents`, {
+      data: { key: `late-${Date.now()}`, intent: { kind: 'note', turn: 6, moveId: null, tags: ['misreading'], text: note } },
+    });
+    expect(added.status()).toBe(200);
+    await openDraft(facilitator);
+    await openDraft(observer);
+    const panel = facilitator.getByTestId('generated-sections');
+    await expect.poll(() => panel.locator('[data-section="notes"]').getAttribute('data-state'), { timeout: 30_000 }).toBe('outdated');
+    await panel.getByRole('button', { name: 'Write the ticked sections again' }).click();
+    await panel.getByRole('group', { name: 'Confirm writing again' }).getByRole('button', { name: 'Replace' }).click();
+    await expect.poll(() => panel.textContent(), { timeout: 15_000 }).toContain('Written again: Observer notes.');
+    expect(await panel.locator('[data-section="notes"]').getAttribute('data-state')).toBe('current');
+    await expect.poll(() => observer.getByTestId('report-editor').textContent(), { timeout: 15_000 }).toContain(note);
+    expect(await observer.getByTestId('report-editor').textContent()).toContain('Facilitator typing in Chromium.');
+    await screenshot(facilitator, 'report-generated-sections-written-again');
+  });
+
   it('shows the sponsor the issued version only', async () => {
     const sponsor = await personPage(DEMO.sponsor);
     await sponsor.goto(`${app.url}/exercises/${exerciseId}/report`);

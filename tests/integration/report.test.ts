@@ -3,6 +3,7 @@ import { extractText, getDocumentProxy } from 'unpdf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { anonymous, DEMO, signIn, startApp, type App, type Client } from '../support/app';
 import { waitForMail } from '../support/mail';
+import * as Y from 'yjs';
 import { appendParagraph, eventually, openReport, titleText } from '../support/report';
 
 let app: App;
@@ -294,4 +295,102 @@ describe('review over HTTP', () => {
     expect((await facilitator.fetch(`/api/runs/${scenarioId}/rungs.csv`)).status).toBe(200);
     expect((await player.json(`/api/runs/${scenarioId}`)).status).toBe(403);
   });
+});
+
+describe('report: writing the generated sections again', () => {
+  type Sections = { sections: { key: string; title: string; state: string }[]; rewritten?: string[] };
+  const url = () => `/api/exercises/${exerciseId}/report/generated`;
+  const stateOf = (body: Sections, key: string) => body.sections.find((s) => s.key === key)?.state;
+  const rewrite = (sections: unknown, client = facilitator) => client.json<Sections>(url(), { method: 'POST', json: { sections } });
+  async function lateNote(text: string): Promise<void> {
+    const added = await observer.json(`/api/exercises/${exerciseId}/intents`, { method: 'POST', json: { key: `late-note-${crypto.randomUUID()}`, intent: { kind: 'note', turn: null, moveId: null, tags: ['good practice'], text } } });
+    expect(added, JSON.stringify(added.body)).toMatchObject({ status: 200 });
+  }
+  const occurrences = (haystack: string, needle: string) => haystack.split(needle).length - 1;
+
+  it('rewrites a section the record has moved past, with nobody in the document, and stores it', async () => {
+    const note = `Noted after the draft was written ${crypto.randomUUID()}`;
+    await lateNote(note);
+    const before = await facilitator.json<Sections>(url());
+    expect(before.status).toBe(200);
+    expect(stateOf(before.body, 'notes')).toBe('outdated');
+    expect(before.body.sections.map((s) => s.title)).toEqual(['Summary', 'Timeline', 'Play against the equilibrium', 'Observer notes']);
+    const answer = await rewrite(['notes']);
+    expect(answer.status).toBe(200);
+    expect(answer.body.rewritten).toEqual(['notes']);
+    expect(stateOf(answer.body, 'notes')).toBe('current');
+    const reader = await openReport(app, observer, exerciseId);
+    try {
+      expect(occurrences(reader.text(), note)).toBe(1);
+      expect(reader.text()).toContain('Written just before the crash'); // typed by hand earlier: kept
+    } finally {
+      reader.close();
+    }
+    expect((await rewrite(['notes'])).body.rewritten).toEqual([]);
+  });
+
+  it('rewrites only the chosen sections in front of the people editing, and keeps what they typed elsewhere', async () => {
+    const editor = await openReport(app, facilitator, exerciseId);
+    try {
+      const note = `Noted while the report was open ${crypto.randomUUID()}`;
+      await lateNote(note);
+      appendParagraph(editor.doc, 'Typed into the last section while the notes were rewritten');
+      await eventually(() => storedText().includes('Typed into the last section'), 'the typing to be stored');
+      const answer = await rewrite(['notes', 'timeline']);
+      expect(answer.status).toBe(200);
+      expect(answer.body.rewritten).toEqual(['notes']); // the timeline already matched the record
+      await eventually(() => editor.text().includes(note), 'the rewritten notes at the open editor');
+      expect(occurrences(editor.text(), note)).toBe(1);
+      expect(editor.text()).toContain('Typed into the last section while the notes were rewritten');
+    } finally {
+      editor.close();
+    }
+  });
+
+  it('leaves a section whose heading was renamed alone and says so', async () => {
+    const editor = await openReport(app, facilitator, exerciseId);
+    try {
+      const fragment = editor.doc.getXmlFragment('default');
+      const heading = fragment.toArray().find((n) => n instanceof Y.XmlElement && n.nodeName === 'heading' && JSON.stringify(n.toJSON()).includes('Observer notes')) as Y.XmlElement;
+      (heading.get(0) as Y.XmlText).insert(0, 'What the ');
+      await eventually(() => storedText().includes('What the Observer notes'), 'the renamed heading to be stored');
+      await lateNote('A note for a section that is not there any more');
+      const status = await facilitator.json<Sections>(url());
+      expect(stateOf(status.body, 'notes')).toBe('missing');
+      const before = editor.text();
+      expect((await rewrite(['notes'])).body.rewritten).toEqual([]);
+      await new Promise((r) => setTimeout(r, 300));
+      expect(editor.text()).toBe(before);
+    } finally {
+      editor.close();
+    }
+  });
+
+  it('refuses players, sponsors, outsiders and the signed-out, and names the field of bad input', async () => {
+    for (const client of [player, sponsor, admin]) {
+      expect((await client.json(url())).status).toBe(403);
+      expect((await rewrite(['summary'], client)).status).toBe(403);
+    }
+    expect((await anonymous(app).json(url(), { method: 'POST', json: { sections: ['summary'] } })).status).toBe(401);
+    const writtenByPeople = await rewrite(['hotWash']);
+    expect(writtenByPeople.status).toBe(400);
+    expect(writtenByPeople.body).toMatchObject({ fields: [{ field: 'sections.0', reason: expect.stringContaining('summary, timeline, comparison, notes') }] });
+    expect((await rewrite([])).body).toMatchObject({ fields: [{ field: 'sections', reason: 'choose at least one section' }] });
+    expect((await facilitator.json(`/api/exercises/no-such-exercise/report/generated`)).status).toBe(404);
+  });
+
+  /** The draft as stored in SQLite, read through a fresh Yjs document. */
+  function storedText(): string {
+    const file = new Database(app.databasePath, { readonly: true, fileMustExist: true });
+    try {
+      const rows = file.prepare('select "update" from report_update where exercise_id = ? order by seq').all(exerciseId) as { update: Buffer }[];
+      const doc = new Y.Doc();
+      for (const row of rows) Y.applyUpdate(doc, new Uint8Array(row.update));
+      const text = JSON.stringify(doc.getXmlFragment('default').toJSON());
+      doc.destroy();
+      return text;
+    } finally {
+      file.close();
+    }
+  }
 });

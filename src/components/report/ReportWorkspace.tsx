@@ -1,7 +1,8 @@
 /**
  * The report workspace: the shared draft on the left; on the right who is
- * here, the issued versions with their exports, sending to sponsors with the
- * record of every send, and comments.
+ * here, the generated sections against the record now, the issued versions
+ * with their exports, sending to sponsors with the record of every send, and
+ * comments.
  */
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback, useState } from 'react';
@@ -10,6 +11,7 @@ import type { ReportPermissions } from '../../lib/report/permissions';
 import { FormMessage } from '../ui/Field';
 import { withQueryClient } from '../ui/QueryRoot';
 import { CommentsPanel } from './CommentsPanel';
+import { GeneratedSectionsPanel } from './GeneratedSectionsPanel';
 import { ReportEditor, type Person } from './ReportEditor';
 import { IssueButton, VersionsPanel } from './VersionsPanel';
 import { SendPanel } from './SendPanel';
@@ -70,6 +72,7 @@ function ReportWorkspace({ exerciseId, user }: Props) {
       </div>
       <aside className="space-y-4" aria-label="Report tools">
         <PeoplePanel people={people} />
+        {report.may.edit && <GeneratedSectionsPanel exerciseId={exerciseId} />}
         <VersionsPanel exerciseId={exerciseId} versions={report.versions} />
         {report.may.send && <SendPanel exerciseId={exerciseId} report={report} onSent={refresh} />}
         {report.may.readDraft && <CommentsPanel exerciseId={exerciseId} may={report.may} />}

@@ -4,14 +4,30 @@
  * equilibrium play from each deviation would have led. A small tidy layout:
  * depth left to right, leaves top to bottom, parents centred on their children.
  */
-import { Controls, Handle, Position, ReactFlow, type Edge, type Node, type NodeProps } from '@xyflow/react';
+import {
+  BaseEdge,
+  Controls,
+  EdgeLabelRenderer,
+  getSmoothStepPath,
+  Handle,
+  Position,
+  ReactFlow,
+  type Edge,
+  type EdgeProps,
+  type Node,
+  type NodeProps,
+} from '@xyflow/react';
 import '@xyflow/react/dist/base.css';
 import { useMemo } from 'react';
 import type { PathTree as Tree, TeamRef } from '../../lib/review/types';
 import { ACTUAL_COLOUR, EQUILIBRIUM_COLOUR } from '../../lib/report/render/chart';
 
-const COLUMN = 250;
-const ROW = 112;
+const NODE_WIDTH = 176; // w-44
+const COLUMN = 320;
+const ROW = 124;
+/** Action labels wrap inside the gap between two columns instead of running under the next node. */
+const LABEL_WIDTH = COLUMN - NODE_WIDTH - 20;
+const TALLEST_NODE = 100;
 const COUNTERFACTUAL = '#2f4f73';
 
 type TreeNodeData = { title: string; kind: Tree['nodes'][number]['kind']; lines: string[]; onActual: boolean };
@@ -32,7 +48,29 @@ function TreeNodeView({ data }: NodeProps<Node<TreeNodeData>>) {
   );
 }
 
+type TreeEdgeData = { label: string };
+
+function TreeEdgeView({ id, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, style, data }: EdgeProps<Edge<TreeEdgeData>>) {
+  const [path, labelX, labelY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition });
+  return (
+    <>
+      <BaseEdge id={id} path={path} style={style} />
+      {data?.label ? (
+        <EdgeLabelRenderer>
+          <div
+            className="nodrag nopan pointer-events-none absolute rounded bg-paper/90 px-1 text-center text-[11px] leading-tight text-ink-900"
+            style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)`, maxWidth: LABEL_WIDTH }}
+          >
+            {data.label}
+          </div>
+        </EdgeLabelRenderer>
+      ) : null}
+    </>
+  );
+}
+
 const NODE_TYPES = { reviewNode: TreeNodeView };
+const EDGE_TYPES = { reviewEdge: TreeEdgeView };
 
 function layout(tree: Tree): Map<string, { x: number; y: number }> {
   const children = new Map<string, string[]>();
@@ -73,18 +111,24 @@ export function PathTree({ tree, teams }: { tree: Tree; teams: TeamRef[] }) {
       draggable: false,
       connectable: false,
     }));
-    const edges: Edge[] = tree.edges.map((e) => ({
+    const edges: Edge<TreeEdgeData>[] = tree.edges.map((e) => ({
       id: `${e.from}>${e.to}`,
       source: e.from,
       target: e.to,
-      label: e.label,
-      labelStyle: { fontSize: 11, fill: '#18212b' },
-      labelBgStyle: { fill: '#f7f5f0' },
+      data: { label: e.label },
       style: edgeStyle(e),
-      type: 'smoothstep',
+      type: 'reviewEdge',
     }));
     return { nodes, edges };
   }, [tree, teams]);
+  // Open showing every row, from the root on the left; the lines run on to the right.
+  const viewport = useMemo(() => {
+    const ys = nodes.map((n) => n.position.y);
+    const top = Math.min(0, ...ys);
+    const span = Math.max(0, ...ys) - top + TALLEST_NODE;
+    const zoom = Math.min(0.85, Math.max(0.3, (height - 48) / span));
+    return { x: 24, y: 24 - top * zoom, zoom };
+  }, [nodes, height]);
   return (
     <div>
       <div className="rounded-md border border-ink-200 bg-paper-deep" style={{ height }} data-testid="path-tree">
@@ -92,7 +136,8 @@ export function PathTree({ tree, teams }: { tree: Tree; teams: TeamRef[] }) {
           nodes={nodes}
           edges={edges}
           nodeTypes={NODE_TYPES}
-          defaultViewport={{ x: 24, y: height / 2 - (nodes[0]?.position.y ?? 0) * 0.85 - 30, zoom: 0.85 }}
+          edgeTypes={EDGE_TYPES}
+          defaultViewport={viewport}
           nodesDraggable={false}
           nodesConnectable={false}
           proOptions={{ hideAttribution: true }}
