@@ -16,6 +16,8 @@ export type Verdict = 'deliver' | 'drop' | 'close';
 
 export const MESSAGE_DROPPED = 'message-dropped';
 export const CLOSE_AFTER_DROPS = 50;
+/** Sockets one person may hold open (server/sockets.ts closes one more with 4429). A tab holds one or two: an exercise, its report; this leaves room for a facilitator's many tabs. */
+export const MAX_SOCKETS_PER_PERSON = 32;
 /** A client that does not finish the closing handshake is cut off after this. */
 const CLOSE_GRACE_MS = 2000;
 

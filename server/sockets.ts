@@ -5,7 +5,10 @@
  * Each feature adds its route to ROUTES.
  *
  * Every open socket's messages pass server/socket-guard.ts (the route's
- * message limit; nothing once the server closes it), and every open socket
+ * message limit; nothing once the server closes it); one person may hold
+ * MAX_SOCKETS_PER_PERSON open at once (one more is closed with 4429, so that
+ * opening connection after connection does not get round the message limit,
+ * nor hold the server's memory); and every open socket
  * stays known here, so an access change (src/lib/access-changes.ts)
  * closes it at once: a deactivated account's sockets, and those opened with a
  * session that has signed out, with 4401, a socket whose
@@ -20,7 +23,7 @@ import { sessionFromHeaders, type SessionUser } from '../src/lib/auth';
 import { loadConfig } from '../src/lib/config';
 import { exerciseRoute } from './live/route';
 import { reportRoute } from './report/route';
-import { closeSocket, guardMessages, type MessageLimit } from './socket-guard';
+import { closeSocket, guardMessages, MAX_SOCKETS_PER_PERSON, type MessageLimit } from './socket-guard';
 
 export type SocketContext = { user: SessionUser; sessionId: string; params: Record<string, string>; request: IncomingMessage };
 
@@ -40,6 +43,7 @@ export type SocketRoute = {
 /** Close codes 4400-4499 tell our clients (and y-websocket's) not to reconnect. */
 export const CLOSE_SIGNED_OUT = 4401;
 export const CLOSE_REFUSED = 4403;
+export const CLOSE_TOO_MANY = 4429;
 
 type OpenSocket = { socket: WebSocket; route: SocketRoute; ctx: SocketContext };
 
@@ -61,6 +65,10 @@ export function attachSockets(server: Server): SocketsHandle {
       .then((admitted) => {
         if ('refusal' in admitted) return refuse(socket, admitted.refusal.status, admitted.refusal.reason);
         wss.handleUpgrade(request, socket, head, (ws) => {
+          // Opened and closed at once rather than refused: a browser sees a close reason, never an upgrade's answer.
+          if (socketLimits && openBy(open, admitted.ctx.user.id) >= MAX_SOCKETS_PER_PERSON) {
+            return closeSocket(ws, CLOSE_TOO_MANY, `Too many live connections: at most ${MAX_SOCKETS_PER_PERSON} at once for one person. Close some tabs, then reload.`);
+          }
           const entry: OpenSocket = { socket: ws, ...admitted };
           guardMessages(ws, socketLimits ? admitted.route.limit : null);
           open.add(entry);
@@ -81,6 +89,12 @@ export function attachSockets(server: Server): SocketsHandle {
         wss.close(() => resolve());
       }),
   };
+}
+
+function openBy(open: Set<OpenSocket>, userId: string): number {
+  let n = 0;
+  for (const entry of open) if (entry.ctx.user.id === userId) n++;
+  return n;
 }
 
 /** Close the sockets an access change concerns, or ask their routes again. */

@@ -1,12 +1,13 @@
 /**
  * The shared socket layer (server/sockets.ts, server/socket-guard.ts) over real sockets on
  * both routes: the per-connection message limit (a flood is refused and closed with 1008,
- * normal use passes, everyone else is still served) and access changes that close open
+ * normal use passes, everyone else is still served), the cap on one person's open sockets,
+ * and access changes that close open
  * sockets at once (a deactivated account, a sign-out, a seat taken away or changed, settings).
  */
 import WebSocket from 'ws';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CLOSE_AFTER_DROPS } from '../../server/socket-guard';
+import { CLOSE_AFTER_DROPS, MAX_SOCKETS_PER_PERSON } from '../../server/socket-guard';
 import type { Snapshot } from '../../src/lib/exercise/view';
 import { DEMO, signIn, startApp, type App, type Client } from '../support/app';
 import { eventually, openReport, type DocClient } from '../support/report';
@@ -206,6 +207,30 @@ describe('the message limit on the report socket', () => {
     } finally {
       editor.close();
       watcher.close();
+    }
+  });
+});
+
+describe('the number of sockets one person may hold open', () => {
+  it(`closes the connection after ${MAX_SOCKETS_PER_PERSON} with 4429 and the reason, counts both routes, and serves everyone else`, async () => {
+    const held: WebSocket[] = [];
+    try {
+      for (let i = 0; i < MAX_SOCKETS_PER_PERSON; i++) held.push(await people.mediator.socket(i % 2 ? `/ws/exercise/${briefing}` : `/ws/report/${finished}`));
+      const extra = await record(people.mediator, `/ws/exercise/${briefing}`);
+      expect(await extra.closed).toEqual({ code: 4429, reason: expect.stringContaining(`at most ${MAX_SOCKETS_PER_PERSON} at once for one person`) });
+      expect(parsed(extra)).toEqual([]); // closed before the route saw it: no snapshot
+      await stillServed(people.red, briefing);
+      held.pop()!.close();
+      await expect
+        .poll(async () => {
+          const again = await record(people.mediator, `/ws/exercise/${briefing}`);
+          const closedAt = await Promise.race([again.closed.then((c) => c.code), new Promise<null>((r) => setTimeout(() => r(null), 300))]);
+          if (closedAt === null) held.push(again.ws);
+          return closedAt;
+        })
+        .toBe(null);
+    } finally {
+      for (const ws of held) ws.close();
     }
   });
 });
