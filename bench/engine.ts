@@ -21,9 +21,9 @@ import {
   type Rng,
 } from '../src/lib/engine';
 import { CHANCE, TERMINAL } from '../src/lib/engine';
-import { parseScenario, scenarioGame } from '../src/lib/scenario';
+import { scenarioGame } from '../src/lib/scenario';
 import { seededRunMoves } from '../server/seed/demo-run';
-import { readFileSync } from 'node:fs';
+import { demoScenario } from '../server/seed/demo-scenario';
 
 interface Row {
   name: string;
@@ -193,12 +193,6 @@ function qre() {
     target: '< 2 s',
     ok: imperfect.ms < 2000,
   });
-}
-
-function demoScenario() {
-  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-  if (!parsed.ok) throw new Error('demo scenario does not parse');
-  return parsed.scenario;
 }
 
 /** The demo ladder stretched to five rounds: about 245,000 nodes, with a simultaneous stage in round 2. */

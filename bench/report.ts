@@ -20,7 +20,7 @@ const { reportPdf } = await import('../src/lib/report/render/pdf');
 const { REPORT_FIELD } = await import('../src/lib/report/schema');
 const { reviewPlay } = await import('../src/lib/review');
 const { scenarioGame } = await import('../src/lib/scenario');
-const { readFileSync } = await import('node:fs');
+const { demoScenario } = await import('../server/seed/demo-scenario');
 
 type Row = { task: string; median: string; detail: string };
 const rows: Row[] = [];
@@ -43,7 +43,7 @@ async function timed<T>(runs: number, task: () => Promise<T> | T): Promise<{ ms:
 
 /** A long report: the generated draft of a played demo line, with the written sections repeated until it runs past 30 pages. */
 function longReport() {
-  const scenario = JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8'));
+  const scenario = demoScenario();
   const game = scenarioGame(scenario);
   const moves = [];
   let node = game.root;

@@ -3,7 +3,6 @@
  * (each through the solver pool, as the page runs them), and how long Chromium
  * takes to lay out and paint a canvas of 2,000 visible nodes. Figures, not tests.
  */
-import { readFileSync } from 'node:fs';
 import { chromium } from 'playwright-core';
 import { buildIfNeeded } from '../server/build';
 import { closeSolverPool, runSolve } from '../server/solver/pool';
@@ -15,6 +14,7 @@ import type { StudioJob } from '../src/lib/studio/analysis-types';
 import { rebuild } from '../src/lib/studio/regenerate';
 import { DEMO, signIn, startApp } from '../tests/support/app';
 import { CHROMIUM } from '../tests/support/chromium';
+import { demoScenario } from '../server/seed/demo-scenario';
 
 type Row = { name: string; ms: number; note?: string };
 const rows: Row[] = [];
@@ -25,14 +25,8 @@ async function timed(name: string, run: () => Promise<unknown> | unknown, note?:
   rows.push({ name, ms: performance.now() - start, ...(note ? { note } : {}) });
 }
 
-function demo(): Scenario {
-  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-  if (!parsed.ok) throw new Error('the demo scenario has faults');
-  return parsed.scenario;
-}
-
 async function demoAnalyses(): Promise<void> {
-  const scenario = demo();
+  const scenario = demoScenario();
   const game = { teams: scenario.teams, root: scenario.tree };
   const nodes = indexGame(game).nodes.length;
   const stage = indexGame(game).nodes.find((n) => n.kind === 'decision' && simultaneousStage(game, n.id)?.movers.length === 2)!;

@@ -1,23 +1,10 @@
-import { readFileSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { db, schema } from '../../src/db/client';
-import { parseScenario, type Scenario } from '../../src/lib/scenario';
+import type { Scenario } from '../../src/lib/scenario';
 import { summaryOf } from '../../src/lib/studio/document';
+import { demoScenario } from './demo-scenario';
 import type { DemoIds } from './people';
 
-export const DEMO_SCENARIO_FILE = resolve('scenarios/serrin-strait.json');
-
 export type SeededScenario = { scenarioId: string; versionId: string; document: Scenario };
-
-/** The demo scenario, checked like any import: a demo with faults stops the seed with every fault listed. */
-export function demoScenario(): Scenario {
-  const parsed = parseScenario(JSON.parse(readFileSync(DEMO_SCENARIO_FILE, 'utf8')));
-  if (!parsed.ok) {
-    const faults = parsed.faults.map((f) => `  ${f.path}: ${f.message}`).join('\n');
-    throw new Error(`The demo scenario ${DEMO_SCENARIO_FILE} is not valid:\n${faults}`);
-  }
-  return parsed.scenario;
-}
 
 export function seedScenario(people: DemoIds): SeededScenario {
   const document = demoScenario();

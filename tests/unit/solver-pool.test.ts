@@ -1,13 +1,12 @@
-import { readFileSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { MonteCarloResult, SubgamePerfectResult } from '../../src/lib/engine';
-import { parseScenario, scenarioGame } from '../../src/lib/scenario';
+import { scenarioGame } from '../../src/lib/scenario';
 import { SolveError, closeSolverPool, runSolve, type SolveProgress } from '../../server/solver/pool';
+import { demoScenario } from '../../server/seed/demo-scenario';
 
-const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-if (!parsed.ok) throw new Error('demo scenario does not parse');
-const game = scenarioGame(parsed.scenario);
-const ranges = parsed.scenario.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
+const demo = demoScenario();
+const game = scenarioGame(demo);
+const ranges = demo.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
 
 afterAll(() => closeSolverPool());
 

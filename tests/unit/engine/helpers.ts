@@ -1,11 +1,11 @@
 import fc from 'fast-check';
-import { readFileSync } from 'node:fs';
 import { childEdges, choiceKey, indexGame, logitQre, nodeById, parsePlainGame, type Game, type GameNode, type Observation } from '../../../src/lib/engine';
 import { CHANCE, TERMINAL, compiledGame, sourceOf } from '../../../src/lib/engine/compile';
 import { Fraction, toExact, type Field } from '../../../src/lib/engine/numbers';
 import { numbersOf } from '../../../src/lib/engine/profile';
 import type { ReducedGame, ReducedInfoset, ReducedNode } from '../../../src/lib/engine/reduced';
-import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+import { scenarioGame } from '../../../src/lib/scenario';
+import { demoScenario } from '../../../server/seed/demo-scenario';
 export { seededRunMoves } from '../../../server/seed/demo-run';
 
 type Pay = number | string;
@@ -170,9 +170,7 @@ export const gamesOfDepth = (depth: number) =>
 
 /** The demo scenario's game (scenarios/serrin-strait.json). */
 export function demoGame(): Game {
-  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-  if (!parsed.ok) throw new Error('demo scenario does not parse');
-  return scenarioGame(parsed.scenario);
+  return scenarioGame(demoScenario());
 }
 
 /** Moves at decision nodes picked by [node, action] numbers (modulo what there is), of one team or, without `team`, of any. */

@@ -1,11 +1,9 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { PlayError, advance, drawChance, mulberry32, nodeById, parentOf, pathTo, stageAt, type ChanceNode, type Moves } from '../../../src/lib/engine';
-import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+import { scenarioGame } from '../../../src/lib/scenario';
+import { demoScenario } from '../../../server/seed/demo-scenario';
 
-const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-if (!parsed.ok) throw new Error('demo scenario does not parse');
-const game = scenarioGame(parsed.scenario);
+const game = scenarioGame(demoScenario());
 
 function playError(nodeId: string, moves: Moves): PlayError {
   try {

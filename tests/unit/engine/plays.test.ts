@@ -3,11 +3,11 @@
  * numbers are worked out by hand in each test. A play is what happens at the nodes
  * reached with positive probability; profiles that differ only elsewhere are one play.
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { backwardInduction, equilibriumCountWords, reachesNode, solveSubgamePerfect, type Game } from '../../../src/lib/engine';
-import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+import { scenarioGame } from '../../../src/lib/scenario';
 import { plain } from './helpers';
+import { demoScenario } from '../../../server/seed/demo-scenario';
 
 const leaf = (payoffs: (number | string)[]) => ({ payoffs });
 const choose = (team: string, actions: [string, unknown][], infoset?: string) => ({
@@ -161,9 +161,7 @@ describe('distinct equilibrium plays through the subgame roll-up', () => {
 });
 
 describe('the demo scenario', () => {
-  const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-  if (!parsed.ok) throw new Error('demo scenario does not parse');
-  const demo = scenarioGame(parsed.scenario);
+  const demo = scenarioGame(demoScenario());
 
   it('has one equilibrium play although ties off the path make many strategy profiles (a regression figure of our own)', () => {
     const result = solveSubgamePerfect(demo);

@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
   actionValues,
@@ -13,8 +12,9 @@ import {
   trembleLogLikelihood,
   type Observation,
 } from '../../../src/lib/engine';
-import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+import { scenarioGame } from '../../../src/lib/scenario';
 import { plain, simultaneous } from './helpers';
+import { demoScenario } from '../../../server/seed/demo-scenario';
 
 const entry = plain(['Entrant', 'Incumbent'], {
   team: 'Entrant',
@@ -24,9 +24,8 @@ const entry = plain(['Entrant', 'Incumbent'], {
   ],
 });
 
-const demoParsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-if (!demoParsed.ok) throw new Error('demo scenario does not parse');
-const demo = scenarioGame(demoParsed.scenario);
+const demoDocument = demoScenario();
+const demo = scenarioGame(demoDocument);
 
 describe('sensitivity of the equilibrium path to each payoff', () => {
   it('gives exact intervals in perfect information (entry deterrence, by hand)', () => {
@@ -91,7 +90,7 @@ describe('Monte Carlo over payoff ranges', () => {
   });
 
   it('runs on a game with simultaneous stages and chance, shares summing to 1', () => {
-    const ranges = demoParsed.scenario.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
+    const ranges = demoDocument.payoffRanges.map((r) => ({ terminalId: r.nodeId, team: r.team, distribution: r.distribution }));
     const result = monteCarlo(demo, ranges, { samples: 200, seed: 3 });
     const total = result.outcomes.reduce((s, o) => s + o.probability, 0);
     expect(total).toBeCloseTo(1, 9);

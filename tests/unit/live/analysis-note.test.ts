@@ -1,15 +1,13 @@
 /** The note beside the Console's equilibrium advice: plays first, profiles after, and a word where play has left the path. */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { solveSubgamePerfect } from '../../../src/lib/engine';
 import { analysisAt, equilibriumNote } from '../../../src/lib/exercise/analysis';
 import { stageAt } from '../../../src/lib/exercise/play';
-import { parseScenario, scenarioGame } from '../../../src/lib/scenario';
+import { scenarioGame } from '../../../src/lib/scenario';
 import type { ScenarioInfo } from '../../../src/lib/exercise/scenario-info';
+import { demoScenario } from '../../../server/seed/demo-scenario';
 
-const parsed = parseScenario(JSON.parse(readFileSync('scenarios/serrin-strait.json', 'utf8')));
-if (!parsed.ok) throw new Error('demo scenario does not parse');
-const game = scenarioGame(parsed.scenario);
+const game = scenarioGame(demoScenario());
 
 describe('equilibrium note', () => {
   const unique = { count: 1, countExact: true, plays: 1, playsExact: true, distinctPayoffs: 1 };
