@@ -56,7 +56,7 @@ export function GeneratedSectionsPanel({ exerciseId }: { exerciseId: string }) {
                   {s.state === 'outdated' && <input type="checkbox" checked={!unticked.has(s.key)} onChange={() => toggle(s.key)} />}
                   <span className={s.state === 'outdated' ? '' : 'pl-5'}>{s.title}</span>
                 </label>
-                <span className={`tag ${STATE_WORDS[s.state].tone}`}>{STATE_WORDS[s.state].text}</span>
+                <span className={`tag shrink-0 whitespace-nowrap ${STATE_WORDS[s.state].tone}`}>{STATE_WORDS[s.state].text}</span>
               </li>
             ))}
           </ul>

@@ -41,9 +41,16 @@ function summary(ctx: DraftContext): JSONContent[] {
   const lambdas = review.fits.filter((f) => f.lambda !== null).map((f) => `${f.team} ${lambdaText(f)}`);
   const played = review.actual.terminal ? `ended at “${ending(review.actual)}”` : 'is still under way';
   const countSentence = equilibriumCountSentence(review.equilibrium);
+  const teams = review.teams.map((t) => t.name).join(', ');
+  const ran = !ctx.startedAt
+    ? `The exercise ${review.title} on the scenario ${ctx.scenarioTitle}, with ${teams}, has not started.`
+    : ctx.endedAt
+      ? `The exercise ${review.title} ran on the scenario ${ctx.scenarioTitle} from ${when(ctx.startedAt)} to ${when(ctx.endedAt)}, with ${teams}.`
+      : `The exercise ${review.title} on the scenario ${ctx.scenarioTitle} started on ${when(ctx.startedAt)}, with ${teams}.`;
   const sentences = [
-    `The exercise ${review.title} ran on the scenario ${ctx.scenarioTitle} from ${when(ctx.startedAt)} to ${when(ctx.endedAt)}, with ${review.teams.map((t) => t.name).join(', ')}.`,
-    `Play took ${review.moves.length} moves and ${played}. Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”.`,
+    ran,
+    (review.moves.length === 0 ? 'No move has been played yet.' : `Play took ${review.moves.length} move${review.moves.length === 1 ? '' : 's'} and ${played}.`) +
+      ` Under the authored payoffs, subgame-perfect play ends at “${ending(review.equilibrium.end)}”.`,
     ...(countSentence ? [countSentence] : []),
     deviations.length === 0
       ? 'Every move followed the equilibrium.'
